@@ -1,0 +1,3 @@
+module github.com/antecedent-lab/antecedent
+
+go 1.26

@@ -1,0 +1,51 @@
+// Package lasso fits penalised generalised linear models along a path of
+// penalties: the lasso, the elastic net, and L1-penalised logistic
+// regression, with room for a loss of the caller's own.
+//
+// For a response y, predictors x_i (rows i = 1…n), observation weights w_i
+// with sum W, mixing a in (0, 1] and penalty factors v_j ≥ 0, it minimises
+// over the intercept b0 and the coefficients b
+//
+//	(1/W) Σ_i w_i · ½·Deviance(y_i, Mean(b0 + x_i·b))  +  λ Σ_j v_j·( a·|b_j| + (1−a)/2·b_j² )
+//
+// where ½·Deviance is ½(y − η)² for the Gaussian family and
+// log(1 + e^η) − y·η for the binomial one. By default each predictor is
+// scaled to unit weighted standard deviation before it is penalised, so the
+// penalty applies to b_j·s_j; coefficients are always reported on the
+// original scale. A factor v_j = 0 leaves predictor j unpenalised.
+//
+// The method is pathwise coordinate descent (Friedman, Hastie & Tibshirani
+// 2010, "Regularization paths for generalized linear models via coordinate
+// descent", Journal of Statistical Software 33(1)): the penalty runs from
+// the smallest value that zeroes every penalised coefficient down a
+// log-spaced sequence, each fit warm-started from the previous one, each
+// coordinate updated by soft-thresholding
+//
+//	b_j ← S(g_j + h_j·b_j, λ·a·v_j) / (h_j + λ·(1−a)·v_j),   S(u, t) = sign(u)·max(|u| − t, 0)
+//
+// with g_j the negative gradient and h_j the curvature along coordinate j.
+// Sequential strong rules (Tibshirani, Bien, Friedman, Hastie, Simon,
+// Taylor & Tibshirani 2012, JRSS-B 74(2):245–266) screen predictors out
+// before each penalty, and a check of the Karush–Kuhn–Tucker conditions
+// afterwards re-admits any that should not have been, so screening saves
+// time without changing the answer. Coordinate descent cycles on the active
+// set to convergence, then makes one full sweep over the screened set.
+//
+// Gaussian paths run in one of two modes: GramMode works from the weighted
+// cross-products of the variables (see Moments), so after one pass over the
+// data each update costs O(p) whatever the number of rows; ResidualMode
+// updates a residual vector, costing O(n) per update. Other families are
+// fitted by iteratively reweighted least squares: at each outer step the
+// loss is replaced by its quadratic approximation and that weighted problem
+// is solved by coordinate descent in ResidualMode. Binomial working weights
+// keep fitted probabilities away from 0 and 1; a path whose deviance
+// explained reaches SaturationLimit (perfect separation, for instance) ends
+// early with Status Saturated instead of diverging.
+//
+// Inputs are never modified and never copied: Data refers to the caller's
+// columns and selects rows and predictors by index, so cross-validation and
+// graph discovery fit many folds and nodes from one dataset.
+//
+// A custom loss implements Family; package familytest checks an
+// implementation against finite differences of its deviance.
+package lasso

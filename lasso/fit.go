@@ -1,0 +1,479 @@
+package lasso
+
+import (
+	"context"
+	"fmt"
+	"math"
+)
+
+// Data is the input of a fit. It refers to the caller's slices and never
+// modifies them, so many fits (folds, nodes) can share one dataset.
+type Data struct {
+	// Columns holds the candidate predictors column-major: Columns[j][i]
+	// is predictor j at row i. Every used column has len(Response) rows.
+	Columns [][]float64
+	// Response holds the response at every row.
+	Response []float64
+	// Weights holds non-negative observation weights; nil means ones.
+	Weights []float64
+	// Rows lists the rows to fit; nil means every row.
+	Rows []int
+	// Predictors lists the columns to use as predictors; nil means
+	// every column.
+	Predictors []int
+}
+
+// Fit fits a penalised path of the response on the predictors by pathwise
+// coordinate descent (Friedman, Hastie & Tibshirani 2010) with sequential
+// strong rules and a KKT check after each penalty (Tibshirani et al. 2012),
+// so screening never changes the answer. It returns an error for bad input
+// (mismatched lengths, NaN or Inf, no rows, no predictors, a constant
+// response, a response the family refuses, bad weights or penalties) and
+// ctx.Err() when ctx is cancelled.
+func Fit(ctx context.Context, d Data, s *Settings) (*Path, error) {
+	n := len(d.Response)
+	pred := d.Predictors
+	if pred == nil {
+		pred = make([]int, len(d.Columns))
+		for j := range pred {
+			pred[j] = j
+		}
+	}
+	if len(pred) == 0 {
+		return nil, ErrNoPredictors
+	}
+	for _, j := range pred {
+		if j < 0 || j >= len(d.Columns) {
+			return nil, fmt.Errorf("%w: predictor column %d of %d", ErrIndex, j, len(d.Columns))
+		}
+		if len(d.Columns[j]) != n {
+			return nil, fmt.Errorf("%w: predictor column %d has %d rows, response has %d", ErrLength, j, len(d.Columns[j]), n)
+		}
+	}
+	rows := d.Rows
+	nr := n
+	if rows != nil {
+		nr = len(rows)
+		for t, i := range rows {
+			if i < 0 || i >= n {
+				return nil, fmt.Errorf("%w: row %d (entry %d of Rows) of %d", ErrIndex, i, t, n)
+			}
+		}
+	}
+	if nr == 0 {
+		return nil, ErrNoRows
+	}
+	if d.Weights != nil && len(d.Weights) != n {
+		return nil, fmt.Errorf("%w: %d weights for %d rows", ErrLength, len(d.Weights), n)
+	}
+	r, err := resolve(s, nr, len(pred))
+	if err != nil {
+		return nil, err
+	}
+	v, err := penaltyScale(s, len(pred))
+	if err != nil {
+		return nil, err
+	}
+	if err := checkWeights(d.Weights, rows); err != nil {
+		return nil, err
+	}
+	rows = dropZeroWeights(d.Weights, rows, n)
+	if err := checkResponse(r.fam, d.Response, rows); err != nil {
+		return nil, err
+	}
+	for _, j := range pred {
+		if err := checkFinite(d.Columns[j], rows, j); err != nil {
+			return nil, err
+		}
+	}
+	useGram := r.gaussian && (r.mode == GramMode || (r.mode == AutoMode && len(pred) <= 500 && nr >= 2*len(pred)))
+	if useGram {
+		cols := make([][]float64, 0, len(pred)+1)
+		for _, j := range pred {
+			cols = append(cols, d.Columns[j])
+		}
+		cols = append(cols, d.Response)
+		m := NewMoments(ColumnMeans(cols, d.Weights, rows))
+		if err := m.Accumulate(cols, d.Weights, rows); err != nil {
+			return nil, err
+		}
+		local := make([]int, len(pred))
+		for j := range local {
+			local[j] = j
+		}
+		e, err := newGramEngine(m, len(pred), local, v, r)
+		if err != nil {
+			return nil, err
+		}
+		path, err := runPath(ctx, e, v, r, nr)
+		if path != nil {
+			path.Predictors = append([]int(nil), pred...)
+		}
+		return path, err
+	}
+	e, err := newResidualEngine(d, pred, rows, v, r)
+	if err != nil {
+		return nil, err
+	}
+	path, err := runPath(ctx, e, v, r, nr)
+	if path != nil {
+		path.Predictors = append([]int(nil), pred...)
+	}
+	return path, err
+}
+
+// FitMoments fits a Gaussian penalised path from precomputed moments (see
+// Moments): variable response on the variables listed in predictors. The
+// result's Predictors are those moment variables, so predictions use
+// columns indexed like the moments. The Family setting must be nil or
+// Gaussian and Mode is ignored. The cost does not depend on the number of
+// rows behind the moments.
+func FitMoments(ctx context.Context, m *Moments, response int, predictors []int, s *Settings) (*Path, error) {
+	if len(predictors) == 0 {
+		return nil, ErrNoPredictors
+	}
+	if response < 0 || response >= m.Vars {
+		return nil, fmt.Errorf("%w: response variable %d of %d", ErrIndex, response, m.Vars)
+	}
+	for _, j := range predictors {
+		if j < 0 || j >= m.Vars {
+			return nil, fmt.Errorf("%w: predictor variable %d of %d", ErrIndex, j, m.Vars)
+		}
+	}
+	if !(m.Weight > 0) {
+		return nil, ErrNoRows
+	}
+	r, err := resolve(s, int(m.Weight), len(predictors))
+	if err != nil {
+		return nil, err
+	}
+	if !r.gaussian {
+		return nil, fmt.Errorf("%w: moments serve the Gaussian family only, not %s", ErrSettings, r.fam.Name())
+	}
+	v, err := penaltyScale(s, len(predictors))
+	if err != nil {
+		return nil, err
+	}
+	for j, x := range m.Cross {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil, fmt.Errorf("%w: cross-product of variables %d and %d", ErrNotFinite, j/m.Vars, j%m.Vars)
+		}
+	}
+	e, err := newGramEngine(m, response, predictors, v, r)
+	if err != nil {
+		return nil, err
+	}
+	path, err := runPath(ctx, e, v, r, int(m.Weight))
+	if path != nil {
+		path.Predictors = append([]int(nil), predictors...)
+	}
+	return path, err
+}
+
+func penaltyScale(s *Settings, p int) ([]float64, error) {
+	v := make([]float64, p)
+	if s == nil || s.PenaltyScale == nil {
+		for j := range v {
+			v[j] = 1
+		}
+		return v, nil
+	}
+	if len(s.PenaltyScale) != p {
+		return nil, fmt.Errorf("%w: %d penalty factors for %d predictors", ErrPenalty, len(s.PenaltyScale), p)
+	}
+	for j, x := range s.PenaltyScale {
+		if !(x >= 0) || math.IsInf(x, 0) {
+			return nil, fmt.Errorf("%w: penalty factor %d is %g, want finite and ≥ 0", ErrPenalty, j, x)
+		}
+		v[j] = x
+	}
+	return v, nil
+}
+
+func checkWeights(w []float64, rows []int) error {
+	if w == nil {
+		return nil
+	}
+	var sum float64
+	bad := &DataError{Column: -2, Err: ErrWeight}
+	forRows(len(w), rows, func(i int) {
+		x := w[i]
+		if !(x >= 0) || math.IsInf(x, 0) {
+			if bad.Count == 0 {
+				bad.Row, bad.Value = i, x
+			}
+			bad.Count++
+			return
+		}
+		sum += x
+	})
+	if bad.Count > 0 {
+		return bad
+	}
+	if !(sum > 0) {
+		return fmt.Errorf("%w: weights sum to zero", ErrWeight)
+	}
+	return nil
+}
+
+// dropZeroWeights returns rows without the rows of zero weight, which
+// contribute nothing to a fit; it returns rows itself when there are none.
+func dropZeroWeights(w []float64, rows []int, n int) []int {
+	if w == nil {
+		return rows
+	}
+	zeros := 0
+	forRows(n, rows, func(i int) {
+		if w[i] == 0 {
+			zeros++
+		}
+	})
+	if zeros == 0 {
+		return rows
+	}
+	kept := make([]int, 0, n-zeros)
+	forRows(n, rows, func(i int) {
+		if w[i] != 0 {
+			kept = append(kept, i)
+		}
+	})
+	return kept
+}
+
+func checkResponse(fam Family, y []float64, rows []int) error {
+	bad := &DataError{Column: -1}
+	var first, distinct = math.NaN(), false
+	forRows(len(y), rows, func(i int) {
+		x := y[i]
+		var err error
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			err = ErrNotFinite
+		} else {
+			err = fam.CheckResponse(x)
+		}
+		if err != nil {
+			if bad.Count == 0 {
+				bad.Row, bad.Value, bad.Err = i, x, err
+			}
+			bad.Count++
+			return
+		}
+		if math.IsNaN(first) {
+			first = x
+		} else if x != first {
+			distinct = true
+		}
+	})
+	if bad.Count > 0 {
+		return bad
+	}
+	if !distinct {
+		return fmt.Errorf("%w: every fitted row has value %g", ErrConstantResponse, first)
+	}
+	return nil
+}
+
+func checkFinite(c []float64, rows []int, col int) error {
+	bad := &DataError{Column: col, Err: ErrNotFinite}
+	forRows(len(c), rows, func(i int) {
+		if x := c[i]; math.IsNaN(x) || math.IsInf(x, 0) {
+			if bad.Count == 0 {
+				bad.Row, bad.Value = i, x
+			}
+			bad.Count++
+		}
+	})
+	if bad.Count > 0 {
+		return bad
+	}
+	return nil
+}
+
+// engine is one of the two coordinate-descent back ends.
+type engine interface {
+	// solve fits penalty lam with coefficients outside set held at zero.
+	// It returns the sweeps used and false when a limit was reached.
+	solve(lam float64, set []int) (int, bool)
+	// gradient writes the negative gradient of the smooth part of the
+	// objective, in standardised coordinates, at the current fit, for
+	// every predictor with skip[j] false (nil skip means all).
+	gradient(g []float64, skip []bool)
+	// coefficients returns the standardised coefficients (live slice).
+	coefficients() []float64
+	// toOriginal converts the current fit to the original scale.
+	toOriginal(b []float64) (intercept float64)
+	deviance() float64
+	nullDeviance() float64
+	excluded() []bool
+	mode() Mode
+	weight() float64
+}
+
+func runPath(ctx context.Context, e engine, v []float64, r resolved, rows int) (*Path, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	p := len(v)
+	excl := e.excluded()
+	path := &Path{Family: r.fam, Mode: e.mode(), Rows: rows, Weight: e.weight(), NullDeviance: e.nullDeviance()}
+	for j, x := range excl {
+		if x {
+			path.Excluded = append(path.Excluded, j)
+		}
+	}
+	inSet := make([]bool, p)
+	var set []int
+	for j := 0; j < p; j++ {
+		if v[j] == 0 && !excl[j] {
+			inSet[j] = true
+			set = append(set, j)
+		}
+	}
+	// Fit the unpenalised predictors (and intercept) alone.
+	if _, ok := e.solve(math.Inf(1), set); !ok {
+		path.Status = IterationLimit
+		return path, nil
+	}
+	g := make([]float64, p)
+	e.gradient(g, nil)
+	am := math.Max(r.a, 1e-3)
+	var lmax float64
+	for j := 0; j < p; j++ {
+		if v[j] > 0 && !excl[j] {
+			lmax = math.Max(lmax, math.Abs(g[j])/(am*v[j]))
+		}
+	}
+	if !(lmax > 0) || math.IsInf(lmax, 0) {
+		lmax = 1
+	}
+	path.MaxPenalty = lmax
+	pens := r.penalties
+	if pens == nil {
+		pens = make([]float64, r.num)
+		for k := range pens {
+			if r.num == 1 {
+				pens[k] = lmax
+				break
+			}
+			pens[k] = lmax * math.Pow(r.floor, float64(k)/float64(r.num-1))
+		}
+	}
+	prev := math.Max(lmax, pens[0])
+	b := make([]float64, p)
+	for _, lam := range pens {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		// Sequential strong rule.
+		for j := 0; j < p; j++ {
+			if !inSet[j] && !excl[j] && math.Abs(g[j]) >= r.a*v[j]*(2*lam-prev) {
+				inSet[j] = true
+				set = append(set, j)
+			}
+		}
+		var sweeps int
+		for {
+			sw, ok := e.solve(lam, set)
+			sweeps += sw
+			if !ok {
+				path.Status = IterationLimit
+				return path, nil
+			}
+			e.gradient(g, inSet)
+			violated := false
+			for j := 0; j < p; j++ {
+				if !inSet[j] && !excl[j] && math.Abs(g[j]) > r.a*v[j]*lam {
+					inSet[j] = true
+					set = append(set, j)
+					violated = true
+				}
+			}
+			if !violated {
+				break
+			}
+		}
+		b0 := e.toOriginal(b)
+		var sp Sparse
+		for j, x := range b {
+			if x != 0 {
+				sp.Index = append(sp.Index, j)
+				sp.Value = append(sp.Value, x)
+			}
+		}
+		dev := e.deviance()
+		expl := 0.0
+		if path.NullDeviance > 0 {
+			expl = 1 - dev/path.NullDeviance
+		}
+		path.Penalties = append(path.Penalties, lam)
+		path.Intercept = append(path.Intercept, b0)
+		path.Coefficients = append(path.Coefficients, sp)
+		path.Deviance = append(path.Deviance, dev)
+		path.Explained = append(path.Explained, expl)
+		path.NonZero = append(path.NonZero, len(sp.Index))
+		path.Sweeps = append(path.Sweeps, sweeps)
+		if expl >= r.saturation {
+			path.Status = Saturated
+			return path, nil
+		}
+		prev = lam
+	}
+	return path, nil
+}
+
+// sweeper is what descend needs of an engine.
+type sweeper interface {
+	// sweep updates each coordinate of set once at penalty lam and
+	// returns the largest weighted squared change.
+	sweep(lam float64, set []int) float64
+	coefficients() []float64
+}
+
+// descend runs coordinate descent on set to convergence: a full sweep,
+// then cycling on the non-zero coefficients until they settle, repeated
+// until a full sweep changes nothing beyond tol.
+func descend(s sweeper, lam float64, set []int, tol float64, limit int, active []int) (int, bool) {
+	sweeps := 0
+	for sweeps < limit {
+		d := s.sweep(lam, set)
+		sweeps++
+		if d < tol {
+			return sweeps, true
+		}
+		beta := s.coefficients()
+		active = active[:0]
+		for _, j := range set {
+			if beta[j] != 0 {
+				active = append(active, j)
+			}
+		}
+		for sweeps < limit {
+			d := s.sweep(lam, active)
+			sweeps++
+			if d < tol {
+				break
+			}
+		}
+	}
+	return sweeps, false
+}
+
+// soft returns the soft-thresholding S(u, t) = sign(u)·max(|u|−t, 0).
+func soft(u, t float64) float64 {
+	switch {
+	case u > t:
+		return u - t
+	case u < -t:
+		return u + t
+	}
+	return 0
+}
+
+// penaltyTerms returns the L1 and L2 parts of the penalty of a coordinate
+// with factor v at penalty lam; lam = +Inf with v = 0 gives no penalty.
+func penaltyTerms(lam, a, v float64) (l1, l2 float64) {
+	if v == 0 {
+		return 0, 0
+	}
+	return lam * a * v, lam * (1 - a) * v
+}

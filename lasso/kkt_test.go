@@ -1,0 +1,284 @@
+package lasso_test
+
+import (
+	"context"
+	"math"
+	"math/rand/v2"
+	"testing"
+
+	"github.com/antecedent-lab/antecedent/lasso"
+)
+
+// problem is a seeded random regression problem.
+type problem struct {
+	x       [][]float64
+	y       []float64
+	weights []float64
+}
+
+func randomProblem(seed uint64, n, p int, binomial, weighted bool) problem {
+	rng := rand.New(rand.NewPCG(seed, 2))
+	x := make([][]float64, p)
+	for j := range x {
+		x[j] = make([]float64, n)
+		scale := math.Exp(rng.NormFloat64()) // predictors on different scales
+		shift := 3 * rng.NormFloat64()
+		for i := range x[j] {
+			x[j][i] = shift + scale*rng.NormFloat64()
+			if j > 0 && j%3 == 0 { // some correlation
+				x[j][i] += 0.5 * x[j-1][i]
+			}
+		}
+	}
+	beta := make([]float64, p)
+	for j := 0; j < p; j += 2 {
+		beta[j] = rng.NormFloat64() / (1 + float64(j)/4)
+	}
+	y := make([]float64, n)
+	for i := range y {
+		var eta float64
+		for j := range x {
+			eta += beta[j] * (x[j][i] - 0) / 3
+		}
+		if binomial {
+			if rng.Float64() < 1/(1+math.Exp(-eta)) {
+				y[i] = 1
+			}
+		} else {
+			y[i] = eta + rng.NormFloat64()
+		}
+	}
+	var w []float64
+	if weighted {
+		w = make([]float64, n)
+		for i := range w {
+			w[i] = rng.Float64() * 2
+		}
+		w[0] = 0
+	}
+	return problem{x, y, w}
+}
+
+// kktViolation returns the largest violation, relative to the penalty, of
+// the optimality conditions of the objective in package lasso's doc
+// comment at penalty index k, computed directly from the data (common
+// practice: the subgradient conditions of a convex problem).
+func kktViolation(path *lasso.Path, pr problem, s *lasso.Settings, k int) float64 {
+	n := len(pr.y)
+	a := s.Mixing
+	if a == 0 {
+		a = 1
+	}
+	fam := s.Family
+	if fam == nil {
+		fam = lasso.Gaussian{}
+	}
+	w := func(i int) float64 {
+		if pr.weights == nil {
+			return 1
+		}
+		return pr.weights[i]
+	}
+	var total float64
+	for i := 0; i < n; i++ {
+		total += w(i)
+	}
+	b0, b := path.Dense(k)
+	lam := path.Penalties[k]
+	resid := make([]float64, n)
+	var sumR float64
+	for i := range resid {
+		eta := b0
+		for j := range b {
+			eta += b[j] * pr.x[j][i]
+		}
+		resid[i] = w(i) * (pr.y[i] - fam.Mean(eta)) / total
+		sumR += resid[i]
+	}
+	worst := 0.0
+	if !s.NoIntercept {
+		worst = math.Abs(sumR) / lam
+	}
+	for j := range b {
+		var g, m, ss float64
+		for i := range resid {
+			g += pr.x[j][i] * resid[i]
+		}
+		if !s.NoIntercept {
+			for i := 0; i < n; i++ {
+				m += w(i) * pr.x[j][i] / total
+			}
+		}
+		for i := 0; i < n; i++ {
+			d := pr.x[j][i] - m
+			ss += w(i) * d * d / total
+		}
+		sd := 1.0
+		if !s.NoStandardize {
+			sd = math.Sqrt(ss)
+		}
+		v := 1.0
+		if s.PenaltyScale != nil {
+			v = s.PenaltyScale[j]
+		}
+		var viol float64
+		if b[j] != 0 {
+			want := lam * v * (a*sd*math.Copysign(1, b[j]) + (1-a)*sd*sd*b[j])
+			viol = math.Abs(g - want)
+		} else {
+			viol = math.Max(0, math.Abs(g)-lam*v*a*sd)
+		}
+		worst = math.Max(worst, viol/(lam*sd))
+	}
+	return worst
+}
+
+func TestKKT(t *testing.T) {
+	unpen := func(p int) []float64 {
+		v := make([]float64, p)
+		for j := range v {
+			v[j] = 1 + float64(j%3)/2
+		}
+		v[1] = 0
+		return v
+	}
+	cases := []struct {
+		name     string
+		binomial bool
+		weighted bool
+		settings lasso.Settings
+		n, p     int
+	}{
+		{"gaussian gram", false, false, lasso.Settings{Mode: lasso.GramMode}, 200, 12},
+		{"gaussian residual", false, false, lasso.Settings{Mode: lasso.ResidualMode}, 200, 12},
+		{"gaussian weighted", false, true, lasso.Settings{}, 150, 10},
+		{"gaussian weighted residual", false, true, lasso.Settings{Mode: lasso.ResidualMode}, 150, 10},
+		{"gaussian mixing", false, false, lasso.Settings{Mixing: 0.3}, 120, 15},
+		{"gaussian unpenalised", false, true, lasso.Settings{PenaltyScale: unpen(10)}, 100, 10},
+		{"gaussian no intercept", false, false, lasso.Settings{NoIntercept: true}, 100, 8},
+		{"gaussian raw scale", false, false, lasso.Settings{NoStandardize: true, Mode: lasso.ResidualMode}, 100, 8},
+		{"gaussian p > n", false, false, lasso.Settings{}, 30, 60},
+		{"binomial", true, false, lasso.Settings{Family: lasso.Binomial{}}, 300, 10},
+		{"binomial weighted", true, true, lasso.Settings{Family: lasso.Binomial{}}, 300, 10},
+		{"binomial mixing unpenalised", true, true, lasso.Settings{Family: lasso.Binomial{}, Mixing: 0.5, PenaltyScale: unpen(8)}, 250, 8},
+		{"binomial no intercept", true, false, lasso.Settings{Family: lasso.Binomial{}, NoIntercept: true}, 200, 6},
+		{"binomial p > n", true, false, lasso.Settings{Family: lasso.Binomial{}}, 40, 60},
+	}
+	for seed, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			pr := randomProblem(uint64(seed+1), c.n, c.p, c.binomial, c.weighted)
+			s := c.settings
+			s.Tolerance = 1e-22
+			s.NumPenalties = 30
+			path, err := lasso.Fit(context.Background(), lasso.Data{Columns: pr.x, Response: pr.y, Weights: pr.weights}, &s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if path.Len() < 2 {
+				t.Fatalf("path has %d penalties (%v)", path.Len(), path.Status)
+			}
+			for k := range path.Len() {
+				// 1e-5 of the penalty: far above rounding at this
+				// tolerance, far below any real violation.
+				if v := kktViolation(path, pr, &s, k); v > 1e-5 {
+					t.Errorf("penalty %d (λ=%g, %d non-zero): KKT violation %g", k, path.Penalties[k], path.NonZero[k], v)
+				}
+			}
+			if s.PenaltyScale != nil {
+				for k := range path.Len() {
+					_, b := path.Dense(k)
+					if b[1] == 0 {
+						t.Errorf("penalty %d: unpenalised predictor is zero", k)
+					}
+				}
+			} else if path.NonZero[0] != 0 {
+				t.Errorf("first penalty has %d non-zero coefficients, want 0", path.NonZero[0])
+			}
+		})
+	}
+}
+
+// TestModesAgree checks that the Gram and residual back ends give the same
+// path, with weights and a row subset.
+func TestModesAgree(t *testing.T) {
+	pr := randomProblem(7, 300, 9, false, true)
+	rows := make([]int, 0, 200)
+	for i := 0; i < 300; i += 3 {
+		rows = append(rows, i, i+1)
+	}
+	var paths [2]*lasso.Path
+	for m, mode := range []lasso.Mode{lasso.GramMode, lasso.ResidualMode} {
+		var err error
+		paths[m], err = lasso.Fit(context.Background(), lasso.Data{Columns: pr.x, Response: pr.y, Weights: pr.weights, Rows: rows},
+			&lasso.Settings{Mode: mode, Tolerance: 1e-16, NumPenalties: 20})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if paths[m].Mode != mode {
+			t.Fatalf("mode %v, want %v", paths[m].Mode, mode)
+		}
+	}
+	for k := range paths[0].Len() {
+		a0, a := paths[0].Dense(k)
+		b0, b := paths[1].Dense(k)
+		if math.Abs(a0-b0) > 1e-8 {
+			t.Errorf("penalty %d: intercepts %g and %g", k, a0, b0)
+		}
+		for j := range a {
+			if math.Abs(a[j]-b[j]) > 1e-8 {
+				t.Errorf("penalty %d predictor %d: %g and %g", k, j, a[j], b[j])
+			}
+		}
+		if d := math.Abs(paths[0].Explained[k] - paths[1].Explained[k]); d > 1e-10 {
+			t.Errorf("penalty %d: deviance explained differs by %g", k, d)
+		}
+	}
+}
+
+// TestMomentsSubtract checks that a training set's moments formed as total
+// minus the held-out rows give the same fit as the training rows directly.
+func TestMomentsSubtract(t *testing.T) {
+	pr := randomProblem(9, 500, 6, false, false)
+	cols := append(append([][]float64{}, pr.x...), pr.y)
+	var train, test []int
+	for i := range pr.y {
+		if i%5 == 2 {
+			test = append(test, i)
+		} else {
+			train = append(train, i)
+		}
+	}
+	shift := lasso.ColumnMeans(cols, nil, nil)
+	total := lasso.NewMoments(shift)
+	held := lasso.NewMoments(shift)
+	if err := total.Accumulate(cols, nil, nil); err != nil {
+		t.Fatal(err)
+	}
+	if err := held.Accumulate(cols, nil, test); err != nil {
+		t.Fatal(err)
+	}
+	if err := total.Subtract(held); err != nil {
+		t.Fatal(err)
+	}
+	s := &lasso.Settings{NumPenalties: 15, Tolerance: 1e-16}
+	a, err := lasso.FitMoments(context.Background(), total, 6, []int{0, 1, 2, 3, 4, 5}, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := lasso.Fit(context.Background(), lasso.Data{Columns: pr.x, Response: pr.y, Rows: train}, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range a.Len() {
+		x0, x := a.Dense(k)
+		y0, y := b.Dense(k)
+		if math.Abs(x0-y0) > 1e-9 {
+			t.Errorf("penalty %d: intercept %g vs %g", k, x0, y0)
+		}
+		for j := range x {
+			if math.Abs(x[j]-y[j]) > 1e-9 {
+				t.Errorf("penalty %d predictor %d: %g vs %g", k, j, x[j], y[j])
+			}
+		}
+	}
+}

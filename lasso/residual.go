@@ -1,0 +1,356 @@
+package lasso
+
+import "math"
+
+// residualEngine runs coordinate descent with residual updates: each
+// coefficient change costs one pass over the rows. Families other than
+// Gaussian are handled by an outer reweighting loop (IRLS): at each outer
+// iteration the loss is replaced by its quadratic approximation at the
+// current fit and that weighted least-squares problem is solved by
+// coordinate descent.
+type residualEngine struct {
+	r      resolved
+	cols   [][]float64 // by predictor position
+	rows   []int       // nil means 0..n-1
+	n      int
+	y      []float64 // response by row position
+	omega  []float64 // weights divided by their sum, by row position
+	total  float64   // sum of weights
+	center []float64
+	scale  []float64
+	v      []float64
+	excl   []bool
+
+	beta []float64 // standardised coefficients
+	b0   float64   // intercept in standardised coordinates
+	eta  []float64 // linear predictor
+	h    []float64 // ω times working weight
+	hr   []float64 // h times the working residual
+	z    []float64 // working response (non-Gaussian)
+	xv   []float64 // Σ h x̃²
+	hx   []float64 // Σ h x̃
+	sumH float64
+	sumR float64 // Σ hr
+
+	nullDev float64
+	tolAbs  float64
+	fresh   bool // h and res reflect the current eta
+	active  []int
+	old     []float64
+}
+
+func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
+	n := len(d.Response)
+	if rows != nil {
+		n = len(rows)
+	}
+	p := len(pred)
+	e := &residualEngine{
+		r: r, rows: rows, n: n, v: v,
+		cols:   make([][]float64, p),
+		y:      make([]float64, n),
+		omega:  make([]float64, n),
+		center: make([]float64, p),
+		scale:  make([]float64, p),
+		excl:   make([]bool, p),
+		beta:   make([]float64, p),
+		eta:    make([]float64, n),
+		h:      make([]float64, n),
+		hr:     make([]float64, n),
+		xv:     make([]float64, p),
+		hx:     make([]float64, p),
+		old:    make([]float64, p),
+	}
+	for j, c := range pred {
+		e.cols[j] = d.Columns[c]
+	}
+	for t := 0; t < n; t++ {
+		i := t
+		if rows != nil {
+			i = rows[t]
+		}
+		e.y[t] = d.Response[i]
+		w := 1.0
+		if d.Weights != nil {
+			w = d.Weights[i]
+		}
+		e.omega[t] = w
+		e.total += w
+	}
+	var ybar float64
+	for t := range e.omega {
+		e.omega[t] /= e.total
+		ybar += e.omega[t] * e.y[t]
+	}
+	for j, c := range e.cols {
+		var m float64
+		if r.intercept {
+			for t, w := range e.omega {
+				m += w * c[e.row(t)]
+			}
+		}
+		var ss float64
+		for t, w := range e.omega {
+			dx := c[e.row(t)] - m
+			ss += w * dx * dx
+		}
+		if ss == 0 || (r.intercept && isConstant(ss, m)) {
+			e.excl[j] = true
+			e.scale[j] = 1
+			continue
+		}
+		e.center[j] = m
+		e.scale[j] = 1
+		if r.standard {
+			e.scale[j] = math.Sqrt(ss)
+		}
+	}
+	if r.intercept {
+		e.b0 = r.fam.Link(ybar)
+	}
+	for t := range e.eta {
+		e.eta[t] = e.b0
+	}
+	for t, w := range e.omega {
+		e.nullDev += w * e.unitDeviance(e.y[t], e.eta[t])
+	}
+	e.nullDev *= e.total
+	e.tolAbs = r.tol * e.nullDev / e.total
+	if !r.gaussian {
+		e.z = make([]float64, n)
+	}
+	e.working()
+	if r.gaussian {
+		for j := range e.cols {
+			if !e.excl[j] {
+				e.xv[j], e.hx[j] = e.weightedSquare(j)
+			}
+		}
+	}
+	return e, nil
+}
+
+func (e *residualEngine) row(t int) int {
+	if e.rows == nil {
+		return t
+	}
+	return e.rows[t]
+}
+
+func (e *residualEngine) unitDeviance(y, eta float64) float64 {
+	if _, ok := e.r.fam.(Binomial); ok {
+		return binomialDevianceEta(y, eta)
+	}
+	return e.r.fam.Deviance(y, e.r.fam.Mean(eta))
+}
+
+// working forms the working weights and residuals at the current eta.
+func (e *residualEngine) working() {
+	if e.fresh {
+		return
+	}
+	e.sumH, e.sumR = 0, 0
+	if e.r.gaussian {
+		copy(e.h, e.omega)
+		for t, y := range e.y {
+			e.hr[t] = e.h[t] * (y - e.eta[t])
+			e.sumR += e.hr[t]
+		}
+		e.sumH = 1
+	} else {
+		fam := e.r.fam
+		for t, y := range e.y {
+			hw, rr := fam.Working(y, e.eta[t])
+			e.h[t] = e.omega[t] * hw
+			e.hr[t] = e.h[t] * rr
+			e.z[t] = e.eta[t] + rr
+			e.sumH += e.h[t]
+			e.sumR += e.hr[t]
+		}
+	}
+	e.fresh = true
+}
+
+// weightedSquare returns Σ h x̃_j² and Σ h x̃_j.
+func (e *residualEngine) weightedSquare(j int) (float64, float64) {
+	c, m, s := e.cols[j], e.center[j], e.scale[j]
+	h := e.h[:e.n]
+	var sq, sum float64
+	if e.rows == nil {
+		c = c[:e.n]
+		for t, x := range c {
+			hd := h[t] * (x - m)
+			sum += hd
+			sq += hd * (x - m)
+		}
+	} else {
+		for t, i := range e.rows {
+			hd := h[t] * (c[i] - m)
+			sum += hd
+			sq += hd * (c[i] - m)
+		}
+	}
+	return sq / (s * s), sum / s
+}
+
+// grad returns Σ h x̃_j res = (Σ x_j·hr − m_j·Σ hr)/s_j.
+func (e *residualEngine) grad(j int) float64 {
+	c := e.cols[j]
+	var sum float64
+	if e.rows == nil {
+		sum = dot(c[:e.n], e.hr)
+	} else {
+		sum = dotIndexed(c, e.rows, e.hr)
+	}
+	return (sum - e.center[j]*e.sumR) / e.scale[j]
+}
+
+// shift subtracts d·x̃_j from the working residuals.
+func (e *residualEngine) shift(j int, d float64) {
+	c, m := e.cols[j], e.center[j]
+	f := d / e.scale[j]
+	hr, h := e.hr[:e.n], e.h[:e.n]
+	if e.rows == nil {
+		c = c[:e.n]
+		for t, x := range c {
+			hr[t] -= f * h[t] * (x - m)
+		}
+	} else {
+		for t, i := range e.rows {
+			hr[t] -= f * h[t] * (c[i] - m)
+		}
+	}
+	e.sumR -= d * e.hx[j]
+}
+
+// dotIndexed returns Σ_t c[rows[t]]·v[t].
+func dotIndexed(c []float64, rows []int, v []float64) float64 {
+	v = v[:len(rows)]
+	var s0, s1 float64
+	t := 0
+	for ; t+2 <= len(rows); t += 2 {
+		s0 += c[rows[t]] * v[t]
+		s1 += c[rows[t+1]] * v[t+1]
+	}
+	if t < len(rows) {
+		s0 += c[rows[t]] * v[t]
+	}
+	return s0 + s1
+}
+
+func (e *residualEngine) sweep(lam float64, set []int) float64 {
+	var maxd float64
+	for _, j := range set {
+		xv := e.xv[j]
+		if xv <= 0 {
+			continue
+		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		old := e.beta[j]
+		u := e.grad(j) + xv*old
+		nb := soft(u, l1) / (xv + l2)
+		if d := nb - old; d != 0 {
+			e.beta[j] = nb
+			e.shift(j, d)
+			maxd = math.Max(maxd, xv*d*d)
+		}
+	}
+	if e.r.intercept && !e.r.gaussian && e.sumH > 0 {
+		var s float64
+		for _, v := range e.hr {
+			s += v
+		}
+		d := s / e.sumH
+		if d != 0 {
+			e.b0 += d
+			for t, h := range e.h {
+				e.hr[t] -= d * h
+			}
+			maxd = math.Max(maxd, e.sumH*d*d)
+		}
+		e.sumR = s - d*e.sumH
+	}
+	return maxd
+}
+
+func (e *residualEngine) coefficients() []float64 { return e.beta }
+
+func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
+	if e.r.gaussian {
+		// Residuals stay current through sweep; eta is not needed.
+		return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
+	}
+	sweeps := 0
+	for outer := 0; outer < e.r.maxReweigh; outer++ {
+		e.working()
+		for _, j := range set {
+			if !e.excl[j] {
+				e.xv[j], e.hx[j] = e.weightedSquare(j)
+			}
+		}
+		copy(e.old, e.beta)
+		oldB0 := e.b0
+		sw, ok := descend(e, lam, set, e.tolAbs, e.r.maxSweeps-sweeps, e.active)
+		sweeps += sw
+		for t := range e.eta {
+			e.eta[t] = e.z[t] - e.hr[t]/e.h[t]
+		}
+		e.fresh = false
+		if !ok {
+			return sweeps, false
+		}
+		d := e.sumH * (e.b0 - oldB0) * (e.b0 - oldB0)
+		for _, j := range set {
+			dj := e.beta[j] - e.old[j]
+			d = math.Max(d, e.xv[j]*dj*dj)
+		}
+		if d < e.tolAbs {
+			return sweeps, true
+		}
+	}
+	return sweeps, false
+}
+
+func (e *residualEngine) gradient(g []float64, skip []bool) {
+	e.working()
+	for j := range g {
+		if skip != nil && skip[j] {
+			continue
+		}
+		if e.excl[j] {
+			g[j] = 0
+			continue
+		}
+		g[j] = e.grad(j)
+	}
+}
+
+func (e *residualEngine) toOriginal(b []float64) float64 {
+	b0 := e.b0
+	for j, x := range e.beta {
+		b[j] = x / e.scale[j]
+		b0 -= b[j] * e.center[j]
+	}
+	return b0
+}
+
+func (e *residualEngine) deviance() float64 {
+	var d float64
+	if e.r.gaussian {
+		for t, w := range e.omega {
+			if w > 0 {
+				d += e.hr[t] * e.hr[t] / w
+			}
+		}
+		return d * e.total
+	}
+	for t, w := range e.omega {
+		d += w * e.unitDeviance(e.y[t], e.eta[t])
+	}
+	return d * e.total
+}
+
+func (e *residualEngine) nullDeviance() float64 { return e.nullDev }
+func (e *residualEngine) excluded() []bool     { return e.excl }
+func (e *residualEngine) mode() Mode           { return ResidualMode }
+func (e *residualEngine) weight() float64      { return e.total }

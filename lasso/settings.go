@@ -1,0 +1,196 @@
+package lasso
+
+import "fmt"
+
+// Mode chooses how a Gaussian path is computed. Other families always use
+// residual updates inside their reweighting loop.
+type Mode int
+
+const (
+	// AutoMode uses GramMode when the rows outnumber the predictors by a
+	// wide margin and ResidualMode otherwise.
+	AutoMode Mode = iota
+	// GramMode works from the weighted cross-products of the predictors
+	// and the response, formed once; after that pass the cost of each
+	// coordinate update is independent of the number of rows.
+	GramMode
+	// ResidualMode keeps the residual vector and updates it after every
+	// coefficient change; each update costs one pass over the rows.
+	ResidualMode
+)
+
+// String returns the mode's name.
+func (m Mode) String() string {
+	switch m {
+	case AutoMode:
+		return "auto"
+	case GramMode:
+		return "gram"
+	case ResidualMode:
+		return "residual"
+	}
+	return fmt.Sprintf("Mode(%d)", int(m))
+}
+
+// Settings configures a path fit. The zero value, or a nil *Settings, gives
+// the documented defaults. A Settings value is never modified by the
+// package.
+type Settings struct {
+	// Family is the loss. Nil means Gaussian{}.
+	Family Family
+
+	// Mixing is the share a of the L1 term in the penalty
+	// λ·Σ v_j·(a|b_j| + (1−a)/2·b_j²); it must lie in (0, 1].
+	// Zero means 1, the pure lasso.
+	Mixing float64
+
+	// PenaltyScale holds one factor v_j ≥ 0 per predictor, in the order
+	// of the predictors. A zero factor leaves that predictor unpenalised,
+	// so it is in every model. Nil means every factor is 1. Factors are
+	// used as given (they are not rescaled).
+	PenaltyScale []float64
+
+	// NoIntercept fits without an intercept (and so without centring the
+	// predictors). The default fits an unpenalised intercept.
+	NoIntercept bool
+
+	// NoStandardize penalises the coefficients on the predictors' own
+	// scales. By default each predictor is scaled internally to unit
+	// weighted standard deviation, so the penalty treats predictors alike;
+	// coefficients are always reported on the original scale.
+	NoStandardize bool
+
+	// Penalties is a caller-given penalty sequence: positive and strictly
+	// decreasing. Nil means an automatic sequence.
+	Penalties []float64
+
+	// NumPenalties is the length of the automatic sequence. Zero means 100.
+	NumPenalties int
+
+	// FloorRatio is the ratio of the smallest to the largest penalty of
+	// the automatic sequence, in (0, 1). Zero means 1e-3 when the rows
+	// outnumber the predictors and 1e-2 otherwise.
+	FloorRatio float64
+
+	// Tolerance is the convergence threshold: iteration stops when the
+	// largest weighted squared coefficient change of a sweep falls below
+	// Tolerance times the null deviance per unit weight. Zero means 1e-7.
+	Tolerance float64
+
+	// MaxSweeps bounds the coordinate-descent sweeps spent on one
+	// penalty. Zero means 100,000.
+	MaxSweeps int
+
+	// MaxReweights bounds the outer reweighting iterations spent on one
+	// penalty by families other than Gaussian. Zero means 100.
+	MaxReweights int
+
+	// SaturationLimit ends the path once the deviance explained reaches
+	// it, as happens under perfect separation. Zero means 0.999.
+	SaturationLimit float64
+
+	// Mode chooses how Gaussian paths are computed. Zero means AutoMode.
+	Mode Mode
+}
+
+// resolved holds settings with defaults filled in.
+type resolved struct {
+	fam        Family
+	gaussian   bool
+	a          float64
+	intercept  bool
+	standard   bool
+	penalties  []float64
+	num        int
+	floor      float64
+	tol        float64
+	maxSweeps  int
+	maxReweigh int
+	saturation float64
+	mode       Mode
+}
+
+func resolve(s *Settings, n, p int) (resolved, error) {
+	if s == nil {
+		s = &Settings{}
+	}
+	r := resolved{
+		fam:        s.Family,
+		a:          s.Mixing,
+		intercept:  !s.NoIntercept,
+		standard:   !s.NoStandardize,
+		num:        s.NumPenalties,
+		floor:      s.FloorRatio,
+		tol:        s.Tolerance,
+		maxSweeps:  s.MaxSweeps,
+		maxReweigh: s.MaxReweights,
+		saturation: s.SaturationLimit,
+		mode:       s.Mode,
+	}
+	if r.fam == nil {
+		r.fam = Gaussian{}
+	}
+	_, r.gaussian = r.fam.(Gaussian)
+	if r.a == 0 {
+		r.a = 1
+	}
+	if !(r.a > 0 && r.a <= 1) {
+		return r, fmt.Errorf("%w: Mixing %g outside (0, 1]", ErrSettings, s.Mixing)
+	}
+	if r.num == 0 {
+		r.num = 100
+	}
+	if r.num < 0 {
+		return r, fmt.Errorf("%w: NumPenalties %d is negative", ErrSettings, r.num)
+	}
+	if r.floor == 0 {
+		r.floor = 1e-3
+		if n <= p {
+			r.floor = 1e-2
+		}
+	}
+	if !(r.floor > 0 && r.floor < 1) {
+		return r, fmt.Errorf("%w: FloorRatio %g outside (0, 1)", ErrSettings, s.FloorRatio)
+	}
+	if r.tol == 0 {
+		r.tol = 1e-7
+	}
+	if !(r.tol > 0) {
+		return r, fmt.Errorf("%w: Tolerance %g must be positive", ErrSettings, s.Tolerance)
+	}
+	if r.maxSweeps == 0 {
+		r.maxSweeps = 100_000
+	}
+	if r.maxReweigh == 0 {
+		r.maxReweigh = 100
+	}
+	if r.maxSweeps < 0 || r.maxReweigh < 0 {
+		return r, fmt.Errorf("%w: negative iteration limit", ErrSettings)
+	}
+	if r.saturation == 0 {
+		r.saturation = 0.999
+	}
+	if !(r.saturation > 0 && r.saturation <= 1) {
+		return r, fmt.Errorf("%w: SaturationLimit %g outside (0, 1]", ErrSettings, s.SaturationLimit)
+	}
+	if r.mode < AutoMode || r.mode > ResidualMode {
+		return r, fmt.Errorf("%w: unknown mode %d", ErrSettings, int(r.mode))
+	}
+	if s.Penalties != nil {
+		if len(s.Penalties) == 0 {
+			return r, fmt.Errorf("%w: empty penalty sequence", ErrPenalty)
+		}
+		for i, l := range s.Penalties {
+			if !(l > 0) || l > maxFinite {
+				return r, fmt.Errorf("%w: penalty %d is %g, want positive and finite", ErrPenalty, i, l)
+			}
+			if i > 0 && !(l < s.Penalties[i-1]) {
+				return r, fmt.Errorf("%w: penalties must strictly decrease, but penalty %d (%g) follows %g", ErrPenalty, i, l, s.Penalties[i-1])
+			}
+		}
+		r.penalties = s.Penalties
+	}
+	return r, nil
+}
+
+const maxFinite = 1.7976931348623157e308
