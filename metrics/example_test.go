@@ -1,0 +1,29 @@
+package metrics_test
+
+import (
+	"fmt"
+
+	"github.com/antecedent-lab/antecedent/metrics"
+)
+
+func ExampleAUC() {
+	scores := []float64{0.1, 0.4, 0.35, 0.8, 0.4}
+	labels := []float64{0, 0, 1, 1, 1}
+	a, err := metrics.AUC(scores, labels, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("AUC %.3f\n", a)
+	// Output:
+	// AUC 0.750
+}
+
+func ExampleCompareGraphs() {
+	truth := []metrics.Edge{{From: "smoking", To: "cough"}, {From: "age", To: "smoking"}}
+	est := []metrics.Edge{{From: "smoking", To: "cough"}, {From: "smoking", To: "age"}, {From: "age", To: "cough"}}
+	s, _ := metrics.CompareGraphs(est, truth)
+	fmt.Printf("precision %.2f recall %.2f SHD %d\n", s.Precision, s.Recall, s.SHD)
+	// Output:
+	// precision 0.33 recall 0.50 SHD 2
+}
