@@ -1,0 +1,27 @@
+// Package cv chooses a penalty by cross-validation and reports the curve.
+//
+// Rows are assigned to K folds (Random, Stratified for 0/1 responses,
+// Grouped to keep related rows together, or Given by the caller), all
+// seeded and reproducible. Fit fits the penalty path on every row to fix
+// the grid, fits each fold's training rows on that grid, and scores each
+// fold's held-out rows at every penalty with the chosen Measure. For each
+// penalty the curve holds the mean over folds and its standard error
+//
+//	SE = sd(fold values, divisor K−1) / √K
+//
+// and the penalty is chosen by the minimum mean (MinimumLoss) or by the
+// one-standard-error rule (OneStandardError): the largest penalty whose
+// mean is within one SE of the best (Breiman, Friedman, Olshen & Stone
+// 1984; Hastie, Tibshirani & Friedman, The Elements of Statistical
+// Learning, 2nd ed., sec. 7.10). For AUC larger is better and the rule is
+// mirrored.
+//
+// FitMoments does the same for Gaussian responses from moments alone (see
+// lasso.Moments): training sets are totals minus held-out folds and the
+// held-out squared error is a quadratic form, so after one pass over the
+// data nothing depends on the number of rows.
+//
+// Folds run in parallel on a bounded number of goroutines and the result is
+// the same for any number of workers. A cancelled context stops the work
+// and returns its error.
+package cv

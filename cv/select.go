@@ -1,0 +1,101 @@
+package cv
+
+import (
+	"fmt"
+	"math"
+)
+
+// Rule chooses a penalty from the cross-validation curve.
+type Rule int
+
+const (
+	// MinimumLoss picks the penalty with the best mean held-out measure
+	// (the largest such penalty when several tie).
+	MinimumLoss Rule = iota
+	// OneStandardError picks the largest penalty whose mean is within
+	// one standard error of the best mean, the standard error taken at
+	// the best penalty (Breiman, Friedman, Olshen & Stone 1984, CART,
+	// sec. 3.4.3; Hastie, Tibshirani & Friedman, The Elements of
+	// Statistical Learning, 2nd ed., sec. 7.10). It gives a sparser model
+	// whose loss is statistically indistinguishable from the best.
+	OneStandardError
+)
+
+// String returns the rule's short name.
+func (r Rule) String() string {
+	switch r {
+	case MinimumLoss:
+		return "minimum"
+	case OneStandardError:
+		return "one-se"
+	}
+	return fmt.Sprintf("Rule(%d)", int(r))
+}
+
+// ParseRule returns the rule with the given short name.
+func ParseRule(s string) (Rule, error) {
+	switch s {
+	case "minimum", "min":
+		return MinimumLoss, nil
+	case "one-se", "1se":
+		return OneStandardError, nil
+	}
+	return 0, fmt.Errorf("cv: unknown rule %q (want minimum or one-se)", s)
+}
+
+// Point is one penalty of a cross-validation curve.
+type Point struct {
+	Penalty    float64 // the penalty λ
+	LogPenalty float64 // −log λ, the usual horizontal axis
+	Mean       float64 // mean held-out measure across folds
+	SE         float64 // standard error of Mean: SD of fold values (n−1) / √K
+	NonZero    int     // non-zero coefficients of the full-data fit
+}
+
+// Choose returns the index of the best point and the index chosen by the
+// one-standard-error rule, for a measure where larger is better when
+// larger is true. NaN means are never chosen. It returns −1, −1 when every
+// mean is NaN.
+func Choose(curve []Point, larger bool) (best, oneSE int) {
+	best = -1
+	for k, p := range curve {
+		if math.IsNaN(p.Mean) {
+			continue
+		}
+		if best < 0 || (larger && p.Mean > curve[best].Mean) || (!larger && p.Mean < curve[best].Mean) {
+			best = k
+		}
+	}
+	if best < 0 {
+		return -1, -1
+	}
+	bound := curve[best].Mean + curve[best].SE
+	if larger {
+		bound = curve[best].Mean - curve[best].SE
+	}
+	for k, p := range curve[:best+1] {
+		if (larger && p.Mean >= bound) || (!larger && p.Mean <= bound) {
+			return best, k
+		}
+	}
+	return best, best
+}
+
+// summarise fills mean and standard error per penalty from fold values
+// loss[f][k].
+func summarise(curve []Point, loss [][]float64) {
+	k := float64(len(loss))
+	for j := range curve {
+		var s float64
+		for _, l := range loss {
+			s += l[j]
+		}
+		m := s / k
+		var ss float64
+		for _, l := range loss {
+			ss += (l[j] - m) * (l[j] - m)
+		}
+		curve[j].Mean = m
+		curve[j].SE = math.Sqrt(ss/(k-1)) / math.Sqrt(k)
+	}
+}
