@@ -29,8 +29,7 @@ func ExampleFit() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds,
-		&cv.Settings{Rule: cv.OneStandardError})
+	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds, nil)
 	if err != nil {
 		log.Fatal(err)
 	}

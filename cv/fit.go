@@ -17,7 +17,7 @@ type Settings struct {
 	Path lasso.Settings
 	// Measure is the held-out measure. Zero means Deviance.
 	Measure Measure
-	// Rule chooses the penalty. Zero means MinimumLoss.
+	// Rule chooses the penalty. Zero means OneStandardError.
 	Rule Rule
 	// Workers bounds the folds fitted at once. Zero means GOMAXPROCS.
 	Workers int
@@ -273,9 +273,9 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	}
 	summarise(r.Curve, r.FoldValues)
 	r.Best, r.OneSE = Choose(r.Curve, r.Measure.LargerIsBetter())
-	r.Selected = r.Best
-	if r.Rule == OneStandardError {
-		r.Selected = r.OneSE
+	r.Selected = r.OneSE
+	if r.Rule == MinimumLoss {
+		r.Selected = r.Best
 	}
 	if r.Selected < 0 {
 		r.Best, r.OneSE, r.Selected = 0, 0, 0

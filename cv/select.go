@@ -9,16 +9,18 @@ import (
 type Rule int
 
 const (
-	// MinimumLoss picks the penalty with the best mean held-out measure
-	// (the largest such penalty when several tie).
-	MinimumLoss Rule = iota
-	// OneStandardError picks the largest penalty whose mean is within
+	// OneStandardError, the default, picks the largest penalty whose mean is within
 	// one standard error of the best mean, the standard error taken at
 	// the best penalty (Breiman, Friedman, Olshen & Stone 1984, CART,
 	// sec. 3.4.3; Hastie, Tibshirani & Friedman, The Elements of
 	// Statistical Learning, 2nd ed., sec. 7.10). It gives a sparser model
-	// whose loss is statistically indistinguishable from the best.
-	OneStandardError
+	// whose loss is statistically indistinguishable from the best, which
+	// suits structure discovery, where a spurious edge costs more than a
+	// slightly better prediction.
+	OneStandardError Rule = iota
+	// MinimumLoss picks the penalty with the best mean held-out measure
+	// (the largest such penalty when several tie).
+	MinimumLoss
 )
 
 // String returns the rule's short name.
