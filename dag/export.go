@@ -1,0 +1,259 @@
+package dag
+
+import (
+	"encoding/csv"
+	"encoding/json"
+	"encoding/xml"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"gonum.org/v1/gonum/graph/encoding/dot"
+)
+
+// DOT returns the graph in Graphviz's DOT language, through gonum's
+// encoding/dot. Edge labels carry the standardised effect, negative
+// effects are dashed, and pen width grows with selection frequency.
+func (g *Graph) DOT(name string) ([]byte, error) {
+	return dot.Marshal(g, name, "", "  ")
+}
+
+// GraphML writes the graph as GraphML (the open XML standard for graphs),
+// with the edge attributes as typed data keys. Unknown attributes are
+// omitted from an edge.
+func (g *Graph) GraphML(w io.Writer) error {
+	type data struct {
+		Key   string `xml:"key,attr"`
+		Value string `xml:",chardata"`
+	}
+	type node struct {
+		ID   string `xml:"id,attr"`
+		Data []data `xml:"data"`
+	}
+	type edge struct {
+		ID     string `xml:"id,attr"`
+		Source string `xml:"source,attr"`
+		Target string `xml:"target,attr"`
+		Data   []data `xml:"data"`
+	}
+	type key struct {
+		ID   string `xml:"id,attr"`
+		For  string `xml:"for,attr"`
+		Name string `xml:"attr.name,attr"`
+		Type string `xml:"attr.type,attr"`
+	}
+	type graphEl struct {
+		ID          string `xml:"id,attr"`
+		EdgeDefault string `xml:"edgedefault,attr"`
+		Nodes       []node `xml:"node"`
+		Edges       []edge `xml:"edge"`
+	}
+	type doc struct {
+		XMLName xml.Name `xml:"graphml"`
+		NS      string   `xml:"xmlns,attr"`
+		Keys    []key    `xml:"key"`
+		Graph   graphEl  `xml:"graph"`
+	}
+	d := doc{
+		NS: "http://graphml.graphdrawing.org/xmlns",
+		Keys: []key{
+			{"name", "node", "name", "string"},
+			{"coefficient", "edge", "coefficient", "double"},
+			{"standardized", "edge", "standardized", "double"},
+			{"frequency", "edge", "frequency", "double"},
+			{"sign", "edge", "sign", "int"},
+			{"required", "edge", "required", "boolean"},
+		},
+		Graph: graphEl{ID: "G", EdgeDefault: "directed"},
+	}
+	for i, n := range g.names {
+		d.Graph.Nodes = append(d.Graph.Nodes, node{ID: fmt.Sprintf("n%d", i), Data: []data{{"name", n}}})
+	}
+	num := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+	for k, e := range g.edges {
+		ed := edge{ID: fmt.Sprintf("e%d", k), Source: fmt.Sprintf("n%d", g.index[e.From]), Target: fmt.Sprintf("n%d", g.index[e.To])}
+		for _, kv := range []struct {
+			k string
+			v float64
+		}{{"coefficient", e.Coefficient}, {"standardized", e.Standardized}, {"frequency", e.Frequency}} {
+			if !math.IsNaN(kv.v) && !math.IsInf(kv.v, 0) {
+				ed.Data = append(ed.Data, data{kv.k, num(kv.v)})
+			}
+		}
+		ed.Data = append(ed.Data, data{"sign", strconv.Itoa(e.Sign)}, data{"required", strconv.FormatBool(e.Required)})
+		d.Graph.Edges = append(d.Graph.Edges, ed)
+	}
+	if _, err := io.WriteString(w, xml.Header); err != nil {
+		return err
+	}
+	enc := xml.NewEncoder(w)
+	enc.Indent("", "  ")
+	if err := enc.Encode(d); err != nil {
+		return err
+	}
+	_, err := io.WriteString(w, "\n")
+	return err
+}
+
+// Number is a float64 that encodes NaN and ±Inf as JSON null (and null as
+// NaN), so that unknown values survive a JSON round trip.
+type Number float64
+
+// MarshalJSON implements json.Marshaler.
+func (x Number) MarshalJSON() ([]byte, error) {
+	f := float64(x)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return []byte("null"), nil
+	}
+	return json.Marshal(f)
+}
+
+// UnmarshalJSON implements json.Unmarshaler.
+func (x *Number) UnmarshalJSON(b []byte) error {
+	if string(b) == "null" {
+		*x = Number(math.NaN())
+		return nil
+	}
+	var f float64
+	if err := json.Unmarshal(b, &f); err != nil {
+		return err
+	}
+	*x = Number(f)
+	return nil
+}
+
+type jsonEdge struct {
+	From         string `json:"from"`
+	To           string `json:"to"`
+	Coefficient  Number `json:"coefficient"`
+	Standardized Number `json:"standardized"`
+	Frequency    Number `json:"frequency"`
+	Sign         int    `json:"sign"`
+	Required     bool   `json:"required,omitempty"`
+}
+
+type jsonGraph struct {
+	Nodes []string   `json:"nodes"`
+	Edges []jsonEdge `json:"edges"`
+}
+
+// MarshalJSON writes {"nodes": [...], "edges": [{"from", "to", ...}]},
+// unknown attributes as null.
+func (g *Graph) MarshalJSON() ([]byte, error) {
+	j := jsonGraph{Nodes: g.names, Edges: make([]jsonEdge, len(g.edges))}
+	if j.Nodes == nil {
+		j.Nodes = []string{}
+	}
+	for k, e := range g.edges {
+		j.Edges[k] = jsonEdge{e.From, e.To, Number(e.Coefficient), Number(e.Standardized), Number(e.Frequency), e.Sign, e.Required}
+	}
+	return json.Marshal(j)
+}
+
+// UnmarshalJSON reads the form MarshalJSON writes; missing attributes are
+// unknown (NaN). Nodes named only by edges are added.
+func (g *Graph) UnmarshalJSON(b []byte) error {
+	var j jsonGraph
+	if err := json.Unmarshal(b, &j); err != nil {
+		return fmt.Errorf("%w: %v", ErrFormat, err)
+	}
+	names := j.Nodes
+	seen := map[string]bool{}
+	for _, n := range names {
+		seen[n] = true
+	}
+	edges := make([]Edge, len(j.Edges))
+	for k, e := range j.Edges {
+		for _, n := range []string{e.From, e.To} {
+			if !seen[n] && n != "" {
+				seen[n] = true
+				names = append(names, n)
+			}
+		}
+		edges[k] = Edge{From: e.From, To: e.To, Coefficient: float64(e.Coefficient), Standardized: float64(e.Standardized),
+			Frequency: float64(e.Frequency), Sign: e.Sign, Required: e.Required}
+	}
+	ng, err := New(names, edges)
+	if err != nil {
+		return err
+	}
+	*g = *ng
+	return nil
+}
+
+// ReadJSON reads a graph in the JSON form.
+func ReadJSON(r io.Reader) (*Graph, error) {
+	b, err := io.ReadAll(io.LimitReader(r, 64<<20))
+	if err != nil {
+		return nil, err
+	}
+	g := new(Graph)
+	if err := g.UnmarshalJSON(b); err != nil {
+		return nil, err
+	}
+	return g, nil
+}
+
+// ReadEdgeCSV reads a known graph from CSV: a header naming "from" and
+// "to" columns (any case; other columns are ignored), then one edge per
+// row. A row with "to" empty declares an isolated node. Nodes take the
+// order in which they first appear. Errors name the line.
+func ReadEdgeCSV(r io.Reader) (*Graph, error) {
+	cr := csv.NewReader(r)
+	cr.FieldsPerRecord = -1
+	head, err := cr.Read()
+	if err != nil {
+		if errors.Is(err, io.EOF) {
+			return nil, fmt.Errorf("%w: empty edge list", ErrFormat)
+		}
+		return nil, fmt.Errorf("%w: %v", ErrFormat, err)
+	}
+	from, to := -1, -1
+	for i, h := range head {
+		switch strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))) {
+		case "from":
+			from = i
+		case "to":
+			to = i
+		}
+	}
+	if from < 0 || to < 0 {
+		return nil, fmt.Errorf("%w: line 1: header needs columns \"from\" and \"to\", got %q", ErrFormat, head)
+	}
+	var names []string
+	seen := map[string]bool{}
+	add := func(n string) {
+		if !seen[n] {
+			seen[n] = true
+			names = append(names, n)
+		}
+	}
+	var edges []Edge
+	for {
+		rec, err := cr.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		line, _ := cr.FieldPos(0)
+		if err != nil {
+			return nil, fmt.Errorf("%w: %v", ErrFormat, err)
+		}
+		if from >= len(rec) || to >= len(rec) {
+			return nil, fmt.Errorf("%w: line %d has %d fields", ErrFormat, line, len(rec))
+		}
+		a, b := strings.TrimSpace(rec[from]), strings.TrimSpace(rec[to])
+		if a == "" {
+			return nil, fmt.Errorf("%w: line %d has an empty \"from\"", ErrFormat, line)
+		}
+		add(a)
+		if b == "" {
+			continue
+		}
+		add(b)
+		edges = append(edges, NewEdge(a, b))
+	}
+	return New(names, edges)
+}
