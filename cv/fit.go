@@ -31,6 +31,9 @@ type Result struct {
 	Curve []Point
 	// FoldValues holds the held-out measure of each fold at each penalty.
 	FoldValues [][]float64
+	// FoldPaths holds each fold's training path (nil from FitMoments and
+	// the Gaussian shortcut, which keep no per-row predictions).
+	FoldPaths []*lasso.Path
 	// Measure and Rule are those used (defaults resolved).
 	Measure Measure
 	Rule    Rule
@@ -131,7 +134,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 	if full.Len() == 0 {
 		return nil, fmt.Errorf("cv: the full-data path fitted no penalty (%v)", full.Status)
 	}
-	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K)}
+	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K), FoldPaths: make([]*lasso.Path, folds.K)}
 	grid := full.Penalties
 	err = pool.Run(ctx, c.Workers, folds.K, func(ctx context.Context, f int) error {
 		ps := c.Path
@@ -168,6 +171,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 			vals[k] = v
 		}
 		r.FoldValues[f] = vals
+		r.FoldPaths[f] = path
 		return nil
 	})
 	if err != nil {

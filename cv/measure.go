@@ -109,3 +109,16 @@ func evaluate(m Measure, fam lasso.Family, mu, y, w []float64) (float64, error) 
 	}
 	return math.NaN(), fmt.Errorf("%w: %v", ErrMeasure, m)
 }
+
+// MarshalText implements encoding.TextMarshaler.
+func (m Measure) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
+
+// UnmarshalText implements encoding.TextUnmarshaler.
+func (m *Measure) UnmarshalText(b []byte) error {
+	v, err := ParseMeasure(string(b))
+	if err != nil {
+		return err
+	}
+	*m = v
+	return nil
+}

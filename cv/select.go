@@ -101,3 +101,16 @@ func summarise(curve []Point, loss [][]float64) {
 		curve[j].SE = math.Sqrt(ss/(k-1)) / math.Sqrt(k)
 	}
 }
+
+// MarshalText implements encoding.TextMarshaler.
+func (r Rule) MarshalText() ([]byte, error) { return []byte(r.String()), nil }
+
+// UnmarshalText implements encoding.TextUnmarshaler.
+func (r *Rule) UnmarshalText(b []byte) error {
+	v, err := ParseRule(string(b))
+	if err != nil {
+		return err
+	}
+	*r = v
+	return nil
+}

@@ -37,6 +37,9 @@ type residualEngine struct {
 	fresh   bool // h and res reflect the current eta
 	active  []int
 	old     []float64
+	etaOld  []float64
+	dev     float64 // deviance at the current eta, when devOK
+	devOK   bool
 }
 
 func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
@@ -118,6 +121,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	e.tolAbs = r.tol * e.nullDev / e.total
 	if !r.gaussian {
 		e.z = make([]float64, n)
+		e.etaOld = make([]float64, n)
 	}
 	e.working()
 	if r.gaussian {
@@ -159,14 +163,44 @@ func (e *residualEngine) working() {
 		e.sumH = 1
 	} else {
 		fam := e.r.fam
+		_, binomial := fam.(Binomial)
+		var dev float64
 		for t, y := range e.y {
-			hw, rr := fam.Working(y, e.eta[t])
-			e.h[t] = e.omega[t] * hw
+			eta := e.eta[t]
+			w := e.omega[t]
+			var hw, rr float64
+			if binomial {
+				// One exponential serves the weight, the residual and
+				// the deviance.
+				ex := math.Exp(-math.Abs(eta))
+				mu := 1 / (1 + ex)
+				if eta < 0 {
+					mu = ex / (1 + ex)
+				}
+				m := mu
+				if m < ProbabilityBound {
+					m = ProbabilityBound
+				} else if m > 1-ProbabilityBound {
+					m = 1 - ProbabilityBound
+				}
+				hw = m * (1 - m)
+				rr = (y - mu) / hw
+				pos := eta
+				if pos < 0 {
+					pos = 0
+				}
+				dev += w * 2 * (math.Log1p(ex) + pos - y*eta)
+			} else {
+				hw, rr = fam.Working(y, eta)
+				dev += w * e.unitDeviance(y, eta)
+			}
+			e.h[t] = w * hw
 			e.hr[t] = e.h[t] * rr
-			e.z[t] = e.eta[t] + rr
+			e.z[t] = eta + rr
 			e.sumH += e.h[t]
 			e.sumR += e.hr[t]
 		}
+		e.dev, e.devOK = dev*e.total, true
 	}
 	e.fresh = true
 }
@@ -282,6 +316,7 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 	}
 	sweeps := 0
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
+		fOld := e.objective(lam, set)
 		e.working()
 		for _, j := range set {
 			if !e.excl[j] {
@@ -289,26 +324,71 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 			}
 		}
 		copy(e.old, e.beta)
+		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
 		sw, ok := descend(e, lam, set, e.tolAbs, e.r.maxSweeps-sweeps, e.active)
 		sweeps += sw
 		for t := range e.eta {
 			e.eta[t] = e.z[t] - e.hr[t]/e.h[t]
 		}
-		e.fresh = false
+		e.fresh, e.devOK = false, false
 		if !ok {
 			return sweeps, false
+		}
+		e.working() // weights for the next step and the deviance, in one pass
+		// A full Newton step can overshoot far from the optimum; halve it
+		// until the penalised objective does not increase.
+		fNew := e.objective(lam, set)
+		for halvings := 0; fNew > fOld+1e-13*math.Abs(fOld); halvings++ {
+			if halvings == 40 {
+				// No decrease along the step: the fit is at the optimum
+				// to rounding. Keep the previous point.
+				copy(e.beta, e.old)
+				copy(e.eta, e.etaOld)
+				e.b0 = oldB0
+				e.fresh, e.devOK = false, false
+				return sweeps, true
+			}
+			for _, j := range set {
+				e.beta[j] = (e.beta[j] + e.old[j]) / 2
+			}
+			e.b0 = (e.b0 + oldB0) / 2
+			for t := range e.eta {
+				e.eta[t] = (e.eta[t] + e.etaOld[t]) / 2
+			}
+			e.fresh, e.devOK = false, false
+			e.working()
+			fNew = e.objective(lam, set)
 		}
 		d := e.sumH * (e.b0 - oldB0) * (e.b0 - oldB0)
 		for _, j := range set {
 			dj := e.beta[j] - e.old[j]
 			d = math.Max(d, e.xv[j]*dj*dj)
 		}
-		if d < e.tolAbs {
+		if d < e.tolAbs || e.saturated() {
+			// A saturated fit has no finite optimum; runPath reports it.
 			return sweeps, true
 		}
 	}
 	return sweeps, false
+}
+
+// saturated reports whether the deviance explained has reached the
+// saturation limit.
+func (e *residualEngine) saturated() bool {
+	return e.nullDev > 0 && 1-e.deviance()/e.nullDev >= e.r.saturation
+}
+
+// objective returns the penalised objective at the current fit:
+// (1/W) Σ w·½·Deviance + λ Σ v_j (a|β_j| + (1−a)/2·β_j²) over set.
+func (e *residualEngine) objective(lam float64, set []int) float64 {
+	f := e.deviance() / (2 * e.total)
+	for _, j := range set {
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		b := e.beta[j]
+		f += l1*math.Abs(b) + l2/2*b*b
+	}
+	return f
 }
 
 func (e *residualEngine) gradient(g []float64, skip []bool) {
@@ -344,10 +424,14 @@ func (e *residualEngine) deviance() float64 {
 		}
 		return d * e.total
 	}
+	if e.devOK {
+		return e.dev
+	}
 	for t, w := range e.omega {
 		d += w * e.unitDeviance(e.y[t], e.eta[t])
 	}
-	return d * e.total
+	e.dev, e.devOK = d*e.total, true
+	return e.dev
 }
 
 func (e *residualEngine) nullDeviance() float64 { return e.nullDev }

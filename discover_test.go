@@ -1,0 +1,378 @@
+package antecedent_test
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"math"
+	"reflect"
+	"slices"
+	"testing"
+
+	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/internal/opendata"
+	"github.com/antecedent-lab/antecedent/metrics"
+	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/simulate"
+)
+
+func dataset(t testing.TB, s *simulate.Sample) *antecedent.Dataset {
+	t.Helper()
+	d, err := antecedent.NewDataset(s.Names, s.Columns)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return d
+}
+
+func edgesOf(r *antecedent.Result) []metrics.Edge {
+	var out []metrics.Edge
+	for _, e := range r.Edges {
+		out = append(out, metrics.Edge{From: e.From, To: e.To})
+	}
+	return out
+}
+
+func truthOf(t testing.TB, m *simulate.Model) []metrics.Edge {
+	g, err := m.Graph()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []metrics.Edge
+	for _, e := range g.Edges() {
+		out = append(out, metrics.Edge{From: e.From, To: e.To})
+	}
+	return out
+}
+
+// TestAsiaRecovery simulates the Asia network of Lauritzen & Spiegelhalter
+// (1988) with its published probabilities at n = 10,000 and its natural
+// time order. A→T is not asserted: with P(A) = 0.01 only about five
+// tuberculosis cases follow a visit, too few to detect. The other seven
+// arcs change probabilities by 0.3 or more (or deterministically) and must
+// be found.
+func TestAsiaRecovery(t *testing.T) {
+	if testing.Short() {
+		t.Skip("long")
+	}
+	s, err := simulate.Asia().Sample(10_000, 2026)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := antecedent.DiscoverContext(context.Background(), dataset(t, s), simulate.AsiaOrder(), &antecedent.Config{Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	truth := truthOf(t, simulate.Asia())
+	score, err := metrics.CompareGraphs(edgesOf(res), truth)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("Asia n=10000: precision %.3f recall %.3f SHD %d, edges %v", score.Precision, score.Recall, score.SHD, edgesOf(res))
+	got := edgesOf(res)
+	for _, e := range truth {
+		if e.From == "A" {
+			continue
+		}
+		if !slices.Contains(got, e) {
+			t.Errorf("missed %s -> %s", e.From, e.To)
+		}
+	}
+	if score.Precision < 0.8 {
+		t.Errorf("precision %.2f below 0.8", score.Precision)
+	}
+	e, _ := res.Node("E")
+	if len(e.Warnings) == 0 {
+		t.Error("E is a deterministic OR of T and L; a separation warning was expected")
+	}
+}
+
+// TestRandomGaussianRecovery checks recovery on random tiered
+// linear-Gaussian DAGs (common practice): with edge weights of at least 0.3
+// and n = 2,000, recall ≥ 0.9 and precision ≥ 0.8 over five graphs, and no
+// edge points backwards in time.
+func TestRandomGaussianRecovery(t *testing.T) {
+	var tp, est, tru int
+	for seed := range uint64(5) {
+		m, o, err := simulate.Random(simulate.RandomSettings{Variables: 15, Tiers: 4}, seed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s, err := m.Sample(2000, seed+100)
+		if err != nil {
+			t.Fatal(err)
+		}
+		res, err := antecedent.DiscoverContext(context.Background(), dataset(t, s), o, &antecedent.Config{Seed: seed})
+		if err != nil {
+			t.Fatal(err)
+		}
+		plan, _ := o.Compile(s.Names)
+		for _, e := range res.Edges {
+			if plan.Tier[plan.Index(e.From)] >= plan.Tier[plan.Index(e.To)] {
+				t.Errorf("edge %s -> %s goes backwards in time", e.From, e.To)
+			}
+		}
+		sc, _ := metrics.CompareGraphs(edgesOf(res), truthOf(t, m))
+		tp += sc.Correct
+		est += len(res.Edges)
+		tru += sc.Correct + sc.Missing + sc.Reversed
+	}
+	prec, rec := float64(tp)/float64(est), float64(tp)/float64(tru)
+	t.Logf("random Gaussian DAGs: precision %.3f recall %.3f (%d true edges)", prec, rec, tru)
+	if rec < 0.9 || prec < 0.8 {
+		t.Errorf("precision %.3f recall %.3f", prec, rec)
+	}
+}
+
+type refitReference struct {
+	Tool  string `json:"tool"`
+	OLS   coefs  `json:"ols"`
+	Logit coefs  `json:"logit"`
+}
+
+type coefs struct {
+	Terms  []string  `json:"terms"`
+	Params []float64 `json:"params"`
+	BSE    []float64 `json:"bse"`
+	Lower  []float64 `json:"lower"`
+	Upper  []float64 `json:"upper"`
+}
+
+// TestRefitAgainstStatsmodels checks the unpenalised refit (estimates,
+// standard errors, 95% intervals) against statsmodels OLS on the diabetes
+// data (Efron et al. 2004) and Logit on the breast-cancer data (Wolberg,
+// Street & Mangasarian 1995), golden values from
+// testdata/reference/refit_reference.py. Required edges make the parents
+// exactly the reference's predictors.
+func TestRefitAgainstStatsmodels(t *testing.T) {
+	var ref refitReference
+	if err := opendata.ReadJSON("reference/refit.json", &ref); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		file, response string
+		want           coefs
+	}{
+		{"diabetes.csv", "progression", ref.OLS},
+		{"breast_cancer.csv", "benign", ref.Logit},
+	} {
+		tab, err := opendata.ReadCSV(c.file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		names := append(slices.Clone(c.want.Terms[1:]), c.response)
+		cols := make([][]float64, len(names))
+		for j, n := range names {
+			cols[j] = tab.Column(n)
+		}
+		d, err := antecedent.NewDataset(names, cols)
+		if err != nil {
+			t.Fatal(err)
+		}
+		o := &order.Order{Tiers: [][]string{c.want.Terms[1:], {c.response}}}
+		for _, p := range c.want.Terms[1:] {
+			o.Required = append(o.Required, order.Edge{From: p, To: c.response})
+		}
+		res, err := antecedent.Discover(d, o)
+		if err != nil {
+			t.Fatal(err)
+		}
+		node, _ := res.Node(c.response)
+		if len(node.Effects) != 3 {
+			t.Fatalf("%s: %d effects", c.response, len(node.Effects))
+		}
+		rel := func(a, b float64) float64 { return math.Abs(a-b) / math.Max(1e-12, math.Abs(b)) }
+		worst := rel(float64(node.Intercept), c.want.Params[0])
+		for k, e := range node.Effects {
+			if e.Term != c.want.Terms[k+1] {
+				t.Fatalf("term %s, want %s", e.Term, c.want.Terms[k+1])
+			}
+			for _, pair := range [][2]float64{
+				{float64(e.Estimate), c.want.Params[k+1]}, {float64(e.SE), c.want.BSE[k+1]},
+				{float64(e.Lower), c.want.Lower[k+1]}, {float64(e.Upper), c.want.Upper[k+1]},
+			} {
+				worst = math.Max(worst, rel(pair[0], pair[1]))
+			}
+		}
+		// 1e-6 relative: both sides solve to far tighter tolerances.
+		if worst > 1e-6 {
+			t.Errorf("%s: largest relative difference from %s is %.2g", c.response, ref.Tool, worst)
+		}
+		t.Logf("%s: largest relative difference from statsmodels %.2g", c.response, worst)
+	}
+}
+
+// TestStabilityBound checks the bound of Meinshausen & Bühlmann (2010),
+// Theorem 1, E[V] ≤ q²/((2π−1)p), on cases worked by hand.
+func TestStabilityBound(t *testing.T) {
+	cases := []struct {
+		q    float64
+		p    int
+		pi   float64
+		want float64
+	}{
+		{4, 20, 0.75, 1.6},  // 16 / (0.5 · 20)
+		{2, 10, 0.9, 0.5},   // 4 / (0.8 · 10)
+		{3, 100, 1, 0.09},   // 9 / (1 · 100)
+		{1, 5, 0.6, 1.0},    // 1 / (0.2 · 5)
+	}
+	for _, c := range cases {
+		if got := antecedent.StabilityBound(c.q, c.p, c.pi); math.Abs(got-c.want) > 1e-12 {
+			t.Errorf("bound(%g, %d, %g) = %g, want %g", c.q, c.p, c.pi, got, c.want)
+		}
+	}
+	if !math.IsNaN(antecedent.StabilityBound(1, 5, 0.5)) || !math.IsNaN(antecedent.StabilityBound(1, 0, 0.8)) {
+		t.Error("bound outside its domain should be NaN")
+	}
+}
+
+func smallProblem(t testing.TB, seed uint64) (*antecedent.Dataset, *order.Order, *simulate.Model) {
+	m := &simulate.Model{Nodes: []simulate.Node{
+		{Name: "age"},
+		{Name: "female", Binary: true, Prevalence: 0.5},
+		{Name: "bmi", Parents: []string{"age"}, Weights: []float64{0.5}},
+		{Name: "diabetes", Binary: true, Parents: []string{"bmi", "age"}, Weights: []float64{1, 0.5}, Prevalence: 0.2},
+		{Name: "noise1"},
+		{Name: "outcome", Parents: []string{"diabetes", "bmi"}, Weights: []float64{1, -0.6}},
+	}}
+	s, err := m.Sample(1500, seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := &order.Order{Tiers: [][]string{{"age", "female"}, {"bmi", "noise1"}, {"diabetes"}, {"outcome"}}}
+	return dataset(t, s), o, m
+}
+
+func TestStabilitySelection(t *testing.T) {
+	d, o, m := smallProblem(t, 3)
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 4, Stability: antecedent.Stability{Pairs: 10}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Stability == nil || res.Stability.Threshold != 0.75 {
+		t.Fatalf("stability report %+v", res.Stability)
+	}
+	var sum float64
+	for _, n := range res.Stability.Nodes {
+		want := n.Selected * n.Selected / ((2*0.75 - 1) * float64(n.Candidates))
+		if math.Abs(float64(n.Bound)-want) > 1e-12 {
+			t.Errorf("%s: bound %g, want %g", n.Name, n.Bound, want)
+		}
+		sum += float64(n.Bound)
+	}
+	if math.Abs(sum-float64(res.Stability.ExpectedFalse)) > 1e-12 {
+		t.Errorf("total bound %g, sum %g", res.Stability.ExpectedFalse, sum)
+	}
+	for _, e := range res.Edges {
+		if !(e.Frequency >= 0.75) && !e.Required {
+			t.Errorf("edge %s -> %s kept at frequency %g", e.From, e.To, e.Frequency)
+		}
+	}
+	sc, _ := metrics.CompareGraphs(edgesOf(res), truthOf(t, m))
+	if sc.Recall < 0.99 {
+		t.Errorf("stable edges %v miss true ones (recall %.2f)", edgesOf(res), sc.Recall)
+	}
+}
+
+// TestDeterministic checks identical results for 1, 2 and 8 workers and a
+// lossless JSON round trip.
+func TestDeterministic(t *testing.T) {
+	d, o, _ := smallProblem(t, 5)
+	var first []byte
+	for _, w := range []int{1, 2, 8} {
+		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 9, Workers: w, Stability: antecedent.Stability{Pairs: 3}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		res.Timings = antecedent.Timings{}
+		res.Config.Workers = 0
+		b, err := json.Marshal(res)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if first == nil {
+			first = b
+			back, err := antecedent.ReadResult(bytes.NewReader(b))
+			if err != nil {
+				t.Fatal(err)
+			}
+			again, _ := json.Marshal(back)
+			if !bytes.Equal(again, b) {
+				t.Error("JSON round trip changed the result")
+			}
+			continue
+		}
+		if !bytes.Equal(first, b) {
+			t.Errorf("%d workers changed the result", w)
+		}
+	}
+}
+
+func TestMissingPolicies(t *testing.T) {
+	d0, o, _ := smallProblem(t, 6)
+	names := d0.Names()
+	cols := make([][]float64, len(names))
+	for j, n := range names {
+		c, _ := d0.Column(n)
+		cols[j] = slices.Clone(c)
+	}
+	cols[2][10] = math.NaN() // bmi
+	cols[2][20] = math.NaN()
+	cols[5][7] = math.NaN() // outcome
+	before := make([][]float64, len(cols))
+	for j := range cols {
+		before[j] = slices.Clone(cols[j])
+	}
+	d, err := antecedent.NewDataset(names, cols)
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = antecedent.Discover(d, o)
+	var me *antecedent.MissingError
+	if !errors.As(err, &me) || !errors.Is(err, antecedent.ErrMissing) || len(me.Columns) != 2 || me.Columns[0].Name != "bmi" || me.Columns[0].FirstRows[0] != 11 {
+		t.Fatalf("error %v", err)
+	}
+	for _, policy := range []antecedent.MissingPolicy{antecedent.CompleteCase, antecedent.AvailableCase} {
+		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Missing: policy})
+		if err != nil {
+			t.Fatalf("%v: %v", policy, err)
+		}
+		out, _ := res.Node("outcome")
+		age, _ := res.Node("bmi")
+		switch policy {
+		case antecedent.CompleteCase:
+			if out.Rows != 1497 || age.Rows != 1497 {
+				t.Errorf("complete case rows %d %d, want 1497", out.Rows, age.Rows)
+			}
+		case antecedent.AvailableCase:
+			if out.Rows != 1497 || age.Rows != 1498 {
+				t.Errorf("available case rows: outcome %d (want 1497), bmi %d (want 1498)", out.Rows, age.Rows)
+			}
+		}
+	}
+	for j := range cols {
+		if !reflect.DeepEqual(fmtNaN(before[j]), fmtNaN(cols[j])) {
+			t.Errorf("column %d changed", j)
+		}
+	}
+}
+
+func fmtNaN(x []float64) []float64 {
+	out := slices.Clone(x)
+	for i, v := range out {
+		if math.IsNaN(v) {
+			out[i] = -999
+		}
+	}
+	return out
+}
+
+func TestCancelDiscover(t *testing.T) {
+	d, o, _ := smallProblem(t, 7)
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := antecedent.DiscoverContext(ctx, d, o, nil); !errors.Is(err, context.Canceled) {
+		t.Fatalf("error %v", err)
+	}
+}

@@ -1,0 +1,236 @@
+package antecedent
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+
+	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/order"
+)
+
+// Number is a float64 that is written to JSON as null when it is NaN or
+// infinite (unknown or undefined) and read back as NaN.
+type Number = dag.Number
+
+func nan() Number { return Number(math.NaN()) }
+
+// Result is the discovered network with everything needed to defend it:
+// per-node fits, cross-validation curves, scores, effects and settings.
+// It marshals to JSON and back without loss.
+type Result struct {
+	// Nodes holds one entry per variable, in the dataset's order.
+	Nodes []Node `json:"nodes"`
+	// Edges are the graph's directed edges, parent → child.
+	Edges []Edge `json:"edges"`
+	// Links are same-tier associations (Config.SameTier), undirected and
+	// outside the graph.
+	Links []Link `json:"links,omitempty"`
+	// Order is the temporal order used.
+	Order *order.Order `json:"order"`
+	// Config is the configuration used, defaults filled in.
+	Config Config `json:"config"`
+	// Rows is the number of rows in the dataset.
+	Rows int `json:"rows"`
+	// Stability reports the stability selection, when it was on.
+	Stability *StabilityReport `json:"stability,omitempty"`
+	// Warnings lists conditions a reader should know about (constant
+	// variables, separation, dropped rows).
+	Warnings []string `json:"warnings,omitempty"`
+	// Timings gives wall-clock seconds per stage.
+	Timings Timings `json:"timings"`
+}
+
+// Timings are wall-clock seconds.
+type Timings struct {
+	Prepare   float64 `json:"prepare"`
+	Nodes     float64 `json:"nodes"`
+	Total     float64 `json:"total"`
+	Workers   int     `json:"workers"`
+	Moments   bool    `json:"shared_moments"`
+	Penalised int     `json:"fits"`
+}
+
+// Node is the fit of one variable on its candidate parents.
+type Node struct {
+	Name   string `json:"name"`
+	Kind   Kind   `json:"kind"`
+	Family string `json:"family"`
+	Tier   int    `json:"tier"`
+	// TierLabel is the tier's label from the order, if any.
+	TierLabel string `json:"tier_label,omitempty"`
+	// Rows is the number of rows the node was fitted on.
+	Rows       int      `json:"rows"`
+	Candidates []string `json:"candidates"`
+	Required   []string `json:"required,omitempty"`
+	Parents    []string `json:"parents"`
+	// MarkovBlanket lists parents, children and the children's other
+	// parents.
+	MarkovBlanket []string `json:"markov_blanket"`
+	// Fitted is false for nodes without candidates (the first tier) and
+	// nodes that could not be fitted (see Warnings).
+	Fitted bool `json:"fitted"`
+	// Penalty is the selected penalty; BestPenalty and OneSEPenalty those
+	// of the minimum and one-standard-error rules.
+	Penalty      Number     `json:"penalty"`
+	BestPenalty  Number     `json:"best_penalty"`
+	OneSEPenalty Number     `json:"one_se_penalty"`
+	Rule         cv.Rule    `json:"rule"`
+	Measure      cv.Measure `json:"measure"`
+	// Score is the cross-validated predictive score at the selected
+	// penalty: AUC for binary nodes, R² for continuous ones, deviance
+	// explained for custom families.
+	Score Score `json:"score"`
+	// Curve is the cross-validation curve.
+	Curve []CurvePoint `json:"curve,omitempty"`
+	// Path holds the coefficient paths of the full-data fit.
+	Path *CoefficientPath `json:"path,omitempty"`
+	// Penalised holds the non-zero penalised coefficients at the
+	// selected penalty (original scale).
+	Penalised []Term `json:"penalised,omitempty"`
+	// Intercept and Effects come from the unpenalised refit on the parents.
+	Intercept Number   `json:"intercept"`
+	Effects   []Effect `json:"effects,omitempty"`
+	// Status is how the full-data path ended.
+	Status   string   `json:"status,omitempty"`
+	Warnings []string `json:"warnings,omitempty"`
+}
+
+// Score is a cross-validated score with its standard error.
+type Score struct {
+	Measure string `json:"measure"`
+	Value   Number `json:"value"`
+	SE      Number `json:"se"`
+}
+
+// CurvePoint is one penalty of a cross-validation curve.
+type CurvePoint struct {
+	Penalty Number `json:"penalty"`
+	Mean    Number `json:"mean"`
+	SE      Number `json:"se"`
+	NonZero int    `json:"nonzero"`
+}
+
+// CoefficientPath holds Values[t][k], the coefficient of term t at
+// penalty k.
+type CoefficientPath struct {
+	Penalties []Number   `json:"penalties"`
+	Terms     []string   `json:"terms"`
+	Values    [][]Number `json:"values"`
+}
+
+// Term is one coefficient: Term is the design column ("variable" or
+// "variable=level").
+type Term struct {
+	Term     string `json:"term"`
+	Variable string `json:"variable"`
+	Value    Number `json:"value"`
+}
+
+// Effect is the unpenalised refit estimate of one parent term, with its
+// standard error and 95% Wald confidence interval; for logistic nodes also
+// as an odds ratio.
+type Effect struct {
+	Parent    string `json:"parent"`
+	Term      string `json:"term"`
+	Estimate  Number `json:"estimate"`
+	SE        Number `json:"se"`
+	Lower     Number `json:"lower"`
+	Upper     Number `json:"upper"`
+	OddsRatio Number `json:"odds_ratio"`
+	OddsLower Number `json:"odds_lower"`
+	OddsUpper Number `json:"odds_upper"`
+	// Standardized is the effect per standard deviation of the parent
+	// term (and of the child, for a continuous child).
+	Standardized Number `json:"standardized"`
+}
+
+// Edge is a directed edge of the discovered graph.
+type Edge struct {
+	From string `json:"from"`
+	To   string `json:"to"`
+	// Coefficient is the refit estimate (for a categorical parent, of its
+	// strongest level), Lower and Upper its 95% interval.
+	Coefficient  Number `json:"coefficient"`
+	Lower        Number `json:"lower"`
+	Upper        Number `json:"upper"`
+	Standardized Number `json:"standardized"`
+	// Frequency is the stability selection frequency (null when off).
+	Frequency Number `json:"frequency"`
+	Sign      int    `json:"sign"`
+	Required  bool   `json:"required,omitempty"`
+}
+
+// Link is an undirected same-tier association.
+type Link struct {
+	A string `json:"a"`
+	B string `json:"b"`
+	// Both is true when each variable selected the other.
+	Both bool `json:"both"`
+}
+
+// StabilityReport summarises stability selection.
+type StabilityReport struct {
+	Pairs     int     `json:"pairs"`
+	Threshold float64 `json:"threshold"`
+	// ExpectedFalse bounds the expected number of falsely selected edges
+	// over all nodes: the sum of the per-node bounds.
+	ExpectedFalse Number `json:"expected_false_edges"`
+	// Nodes holds each fitted node's average selection count q, its
+	// number of penalised candidates p and its bound q²/((2π−1)p).
+	Nodes []StabilityNode `json:"nodes"`
+}
+
+// StabilityNode is one node's share of the stability bound.
+type StabilityNode struct {
+	Name       string  `json:"name"`
+	Selected   float64 `json:"mean_selected"`
+	Candidates int     `json:"candidates"`
+	Bound      Number  `json:"bound"`
+}
+
+// Graph returns the result as a dag.Graph.
+func (r *Result) Graph() (*dag.Graph, error) {
+	names := make([]string, len(r.Nodes))
+	for i, n := range r.Nodes {
+		names[i] = n.Name
+	}
+	edges := make([]dag.Edge, len(r.Edges))
+	for k, e := range r.Edges {
+		edges[k] = dag.Edge{From: e.From, To: e.To, Coefficient: float64(e.Coefficient), Standardized: float64(e.Standardized),
+			Frequency: float64(e.Frequency), Sign: e.Sign, Required: e.Required}
+	}
+	return dag.New(names, edges)
+}
+
+// Node returns the named node's result.
+func (r *Result) Node(name string) (*Node, error) {
+	for i := range r.Nodes {
+		if r.Nodes[i].Name == name {
+			return &r.Nodes[i], nil
+		}
+	}
+	return nil, fmt.Errorf("%w: %q", ErrVariable, name)
+}
+
+// WriteJSON writes the result as indented JSON.
+func (r *Result) WriteJSON(w io.Writer) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(r)
+}
+
+// ReadResult reads a result written by WriteJSON (or json.Marshal).
+func ReadResult(rd io.Reader) (*Result, error) {
+	var r Result
+	dec := json.NewDecoder(io.LimitReader(rd, 1<<30))
+	if err := dec.Decode(&r); err != nil {
+		return nil, fmt.Errorf("antecedent: reading result: %w", err)
+	}
+	if _, err := r.Graph(); err != nil {
+		return nil, fmt.Errorf("antecedent: reading result: %w", err)
+	}
+	return &r, nil
+}
