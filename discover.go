@@ -638,7 +638,9 @@ func (r *run) assemble(res *Result, fits []nodeFit) error {
 	for k := range seen {
 		keys = append(keys, k)
 	}
-	sort.Slice(keys, func(a, b int) bool { return keys[a][0] < keys[b][0] || (keys[a][0] == keys[b][0] && keys[a][1] < keys[b][1]) })
+	sort.Slice(keys, func(a, b int) bool {
+		return keys[a][0] < keys[b][0] || (keys[a][0] == keys[b][0] && keys[a][1] < keys[b][1])
+	})
 	for _, k := range keys {
 		res.Links = append(res.Links, Link{A: r.d.vars[k[0]].Name, B: r.d.vars[k[1]].Name, Both: seen[k] == 2})
 	}

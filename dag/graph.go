@@ -370,7 +370,9 @@ func (g *Graph) To(id int64) graph.Nodes {
 }
 
 // HasEdgeBetween reports whether an edge joins x and y in either direction.
-func (g *Graph) HasEdgeBetween(x, y int64) bool { return g.HasEdgeFromTo(x, y) || g.HasEdgeFromTo(y, x) }
+func (g *Graph) HasEdgeBetween(x, y int64) bool {
+	return g.HasEdgeFromTo(x, y) || g.HasEdgeFromTo(y, x)
+}
 
 // HasEdgeFromTo reports whether there is an edge u → v.
 func (g *Graph) HasEdgeFromTo(u, v int64) bool {

@@ -151,6 +151,6 @@ func (e *gramEngine) deviance() float64 {
 }
 
 func (e *gramEngine) nullDeviance() float64 { return e.vyy * e.m.Weight }
-func (e *gramEngine) excluded() []bool     { return e.excl }
-func (e *gramEngine) mode() Mode           { return GramMode }
-func (e *gramEngine) weight() float64      { return e.m.Weight }
+func (e *gramEngine) excluded() []bool      { return e.excl }
+func (e *gramEngine) mode() Mode            { return GramMode }
+func (e *gramEngine) weight() float64       { return e.m.Weight }

@@ -435,6 +435,6 @@ func (e *residualEngine) deviance() float64 {
 }
 
 func (e *residualEngine) nullDeviance() float64 { return e.nullDev }
-func (e *residualEngine) excluded() []bool     { return e.excl }
-func (e *residualEngine) mode() Mode           { return ResidualMode }
-func (e *residualEngine) weight() float64      { return e.total }
+func (e *residualEngine) excluded() []bool      { return e.excl }
+func (e *residualEngine) mode() Mode            { return ResidualMode }
+func (e *residualEngine) weight() float64       { return e.total }
