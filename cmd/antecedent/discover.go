@@ -1,0 +1,197 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/order"
+)
+
+// settings are the options shared by demo and discover.
+type settings struct {
+	folds     int
+	rule      string
+	measure   string
+	seed      uint64
+	pairs     int
+	threshold float64
+	workers   int
+	missing   string
+	sameTier  bool
+	quiet     bool
+	jsonOut   string
+	dotOut    string
+	graphml   string
+}
+
+func (s *settings) register(fs *flag.FlagSet) {
+	fs.IntVar(&s.folds, "folds", 10, "cross-validation folds")
+	fs.StringVar(&s.rule, "rule", "one-se", "penalty choice: one-se or minimum")
+	fs.StringVar(&s.measure, "measure", "deviance", "cross-validated loss: deviance, mse, mae, auc or misclassification")
+	fs.Uint64Var(&s.seed, "seed", 1, "seed for folds and subsamples")
+	fs.IntVar(&s.pairs, "stability-pairs", 0, "complementary pairs for stability selection (0 = off)")
+	fs.Float64Var(&s.threshold, "stability-threshold", 0.75, "selection frequency an edge needs, in (0.5, 1]")
+	fs.IntVar(&s.workers, "workers", 0, "nodes fitted at once (0 = number of CPUs)")
+	fs.StringVar(&s.missing, "missing", "error", "missing values: error, complete-case or available-case")
+	fs.BoolVar(&s.sameTier, "same-tier", false, "also report same-tier associations as undirected links")
+	fs.BoolVar(&s.quiet, "quiet", false, "print nothing but errors")
+	fs.StringVar(&s.jsonOut, "json", "", "write the result as JSON to this file")
+	fs.StringVar(&s.dotOut, "dot", "", "write the graph in DOT to this file")
+	fs.StringVar(&s.graphml, "graphml", "", "write the graph as GraphML to this file")
+}
+
+func (s *settings) config() (*antecedent.Config, error) {
+	c := &antecedent.Config{Folds: s.folds, Seed: s.seed, Workers: s.workers, SameTier: s.sameTier}
+	var err error
+	if c.Rule, err = cv.ParseRule(s.rule); err != nil {
+		return nil, usageError{err.Error()}
+	}
+	if c.Measure, err = cv.ParseMeasure(s.measure); err != nil {
+		return nil, usageError{err.Error()}
+	}
+	if err := c.Missing.UnmarshalText([]byte(s.missing)); err != nil {
+		return nil, usageError{err.Error()}
+	}
+	if s.folds < 2 {
+		return nil, usageError{fmt.Sprintf("--folds %d: need at least 2", s.folds)}
+	}
+	if s.workers < 0 {
+		return nil, usageError{fmt.Sprintf("--workers %d: must be 0 or more", s.workers)}
+	}
+	if s.pairs < 0 {
+		return nil, usageError{fmt.Sprintf("--stability-pairs %d: must be 0 or more", s.pairs)}
+	}
+	if s.pairs > 0 {
+		if !(s.threshold > 0.5 && s.threshold <= 1) {
+			return nil, usageError{fmt.Sprintf("--stability-threshold %g: must be in (0.5, 1]", s.threshold)}
+		}
+		c.Stability = antecedent.Stability{Pairs: s.pairs, Threshold: s.threshold}
+	}
+	return c, nil
+}
+
+// outputs writes the requested exports, refusing to overwrite inputs.
+func (s *settings) outputs(res *antecedent.Result, inputs ...string) error {
+	type out struct {
+		path  string
+		write func(io.Writer) error
+	}
+	g, err := res.Graph()
+	if err != nil {
+		return err
+	}
+	outs := []out{
+		{s.jsonOut, res.WriteJSON},
+		{s.dotOut, func(w io.Writer) error {
+			b, err := g.DOT("antecedent")
+			if err != nil {
+				return err
+			}
+			_, err = w.Write(append(b, '\n'))
+			return err
+		}},
+		{s.graphml, g.GraphML},
+	}
+	for _, o := range outs {
+		if o.path == "" {
+			continue
+		}
+		for _, in := range inputs {
+			if samePath(o.path, in) {
+				return usageError{fmt.Sprintf("refusing to write %s over the input file %s", o.path, in)}
+			}
+		}
+		var buf bytes.Buffer
+		if err := o.write(&buf); err != nil {
+			return err
+		}
+		if err := os.WriteFile(o.path, buf.Bytes(), 0o644); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func samePath(a, b string) bool {
+	if a == "" || b == "" {
+		return false
+	}
+	if fa, err := os.Stat(a); err == nil {
+		if fb, err := os.Stat(b); err == nil {
+			return os.SameFile(fa, fb)
+		}
+	}
+	pa, _ := filepath.Abs(a)
+	pb, _ := filepath.Abs(b)
+	return pa == pb
+}
+
+func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) error {
+	fs := newFlags("discover", "--data FILE.csv --order FILE [options]", stderr)
+	var s settings
+	dataPath := fs.String("data", "", "CSV file with a header row (required)")
+	orderPath := fs.String("order", "", "order file, text or JSON form (required)")
+	s.register(fs)
+	if err := parse(fs, args); err != nil {
+		return err
+	}
+	if *dataPath == "" || *orderPath == "" {
+		return usageError{"--data and --order are required"}
+	}
+	cfg, err := s.config()
+	if err != nil {
+		return err
+	}
+	d, err := readData(*dataPath)
+	if err != nil {
+		return err
+	}
+	o, err := readOrder(*orderPath)
+	if err != nil {
+		return err
+	}
+	res, err := antecedent.DiscoverContext(ctx, d, o, cfg)
+	if err != nil {
+		return err
+	}
+	if err := s.outputs(res, *dataPath, *orderPath); err != nil {
+		return err
+	}
+	if !s.quiet {
+		writeSummary(stdout, res, nil)
+	}
+	return nil
+}
+
+func readData(path string) (*antecedent.Dataset, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	d, err := antecedent.ReadCSV(f, nil)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	return d, nil
+}
+
+func readOrder(path string) (*order.Order, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	o, err := order.Parse(f)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	return o, nil
+}

@@ -1,0 +1,120 @@
+// Command antecedent discovers a sparse causal network from a table whose
+// variables are ordered in time, for research pipelines.
+//
+//	antecedent demo                       run on the shipped synthetic demo data
+//	antecedent discover --data d.csv --order o.txt --json result.json
+//	antecedent simulate --variables 20 --rows 2000 --data d.csv --order o.txt --truth t.csv
+//	antecedent compare --estimate result.json --truth t.csv
+//
+// Run "antecedent help COMMAND" for a command's options. Errors are printed
+// as one line on standard error with a non-zero exit status.
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+)
+
+// usageError marks errors in how the command was called (exit status 2).
+type usageError struct{ msg string }
+
+func (e usageError) Error() string { return e.msg }
+
+type command struct {
+	name, summary string
+	run           func(ctx context.Context, args []string, stdout, stderr io.Writer) error
+}
+
+var commands = []command{
+	{"demo", "run the whole job on the shipped synthetic demo data", runDemo},
+	{"discover", "discover the network of a CSV file given a time order", runDiscover},
+	{"simulate", "write data, order and true graph drawn from a random tiered network", runSimulate},
+	{"compare", "score an estimated network against a true one", runCompare},
+}
+
+func main() {
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
+	defer stop()
+	os.Exit(run(ctx, os.Args[1:], os.Stdout, os.Stderr))
+}
+
+func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+		if len(args) > 1 {
+			args = []string{args[1], "-h"}
+		} else {
+			usage(stdout)
+			return 0
+		}
+	}
+	for _, c := range commands {
+		if c.name == args[0] {
+			err := c.run(ctx, args[1:], stdout, stderr)
+			switch {
+			case err == nil:
+				return 0
+			case errors.Is(err, flag.ErrHelp):
+				return 0
+			}
+			fmt.Fprintln(stderr, "antecedent "+c.name+": "+oneLine(err.Error()))
+			var ue usageError
+			if errors.As(err, &ue) {
+				return 2
+			}
+			return 1
+		}
+	}
+	fmt.Fprintf(stderr, "antecedent: unknown command %q (run \"antecedent help\")\n", args[0])
+	return 2
+}
+
+func usage(w io.Writer) {
+	fmt.Fprintln(w, "antecedent discovers a sparse causal network from data ordered in time.")
+	fmt.Fprintln(w, "\nUsage: antecedent COMMAND [options]\n\nCommands:")
+	for _, c := range commands {
+		fmt.Fprintf(w, "  %-9s %s\n", c.name, c.summary)
+	}
+	fmt.Fprintln(w, "\nRun \"antecedent help COMMAND\" for a command's options.")
+	fmt.Fprintln(w, "\nResults are hypotheses from observational data; see the README's cautions.")
+}
+
+// oneLine folds an error message onto one line.
+func oneLine(s string) string {
+	out := []rune{}
+	for _, r := range s {
+		if r == '\n' || r == '\r' {
+			r = ' '
+		}
+		out = append(out, r)
+	}
+	return string(out)
+}
+
+// newFlags returns a flag set that reports errors instead of exiting.
+func newFlags(name, synopsis string, stderr io.Writer) *flag.FlagSet {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.Usage = func() {
+		fmt.Fprintf(stderr, "Usage: antecedent %s %s\n\nOptions:\n", name, synopsis)
+		fs.PrintDefaults()
+	}
+	return fs
+}
+
+func parse(fs *flag.FlagSet, args []string) error {
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return err
+		}
+		return usageError{err.Error()}
+	}
+	if fs.NArg() > 0 {
+		return usageError{fmt.Sprintf("unexpected argument %q", fs.Arg(0))}
+	}
+	return nil
+}

@@ -1,0 +1,113 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func runCLI(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(context.Background(), args, &out, &errb)
+	return out.String(), errb.String(), code
+}
+
+func TestDemo(t *testing.T) {
+	if testing.Short() {
+		t.Skip("long")
+	}
+	dir := t.TempDir()
+	out, errs, code := runCLI(t, "demo", "--out", dir)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, s := range []string{"Tier 1 — traits", "length_of_stay", "AUC", "R²", "Against the known true graph", "precision", "Caution"} {
+		if !strings.Contains(out, s) {
+			t.Errorf("demo output lacks %q", s)
+		}
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "result.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Edges []struct{ From, To string } `json:"edges"`
+		Nodes []struct{ Name string }     `json:"nodes"`
+	}
+	if err := json.Unmarshal(b, &doc); err != nil || len(doc.Edges) == 0 || len(doc.Nodes) != 18 || doc.Edges[0].From == "" {
+		t.Fatalf("result.json: %v %+v", err, doc)
+	}
+	if dot, err := os.ReadFile(filepath.Join(dir, "network.dot")); err != nil || !strings.Contains(string(dot), "digraph") {
+		t.Fatalf("network.dot: %v", err)
+	}
+}
+
+func TestSimulateDiscoverCompare(t *testing.T) {
+	dir := t.TempDir()
+	data, ord, truth := filepath.Join(dir, "d.csv"), filepath.Join(dir, "o.txt"), filepath.Join(dir, "t.csv")
+	if _, errs, code := runCLI(t, "simulate", "--variables", "8", "--tiers", "3", "--rows", "600", "--data", data, "--order", ord, "--truth", truth); code != 0 {
+		t.Fatalf("simulate: %s", errs)
+	}
+	res := filepath.Join(dir, "r.json")
+	gml := filepath.Join(dir, "g.graphml")
+	out, errs, code := runCLI(t, "discover", "--data", data, "--order", ord, "--json", res, "--graphml", gml, "--folds", "5", "--stability-pairs", "3")
+	if code != 0 {
+		t.Fatalf("discover: %s", errs)
+	}
+	if !strings.Contains(out, "Stability selection") {
+		t.Errorf("summary lacks stability:\n%s", out)
+	}
+	out, errs, code = runCLI(t, "compare", "--estimate", res, "--truth", truth)
+	if code != 0 || !strings.Contains(out, "precision") || !strings.Contains(out, "structural Hamming distance") {
+		t.Fatalf("compare: %d %s %s", code, out, errs)
+	}
+	if _, err := os.Stat(gml); err != nil {
+		t.Error(err)
+	}
+}
+
+func TestErrorsAreOneLine(t *testing.T) {
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("a,b\n1,2\n3\n"), 0o644)
+	ord := filepath.Join(dir, "o.txt")
+	os.WriteFile(ord, []byte("tier: a\ntier: b\n"), 0o644)
+	cases := []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"frobnicate"}, 2, "unknown command"},
+		{[]string{"discover"}, 2, "--data and --order are required"},
+		{[]string{"discover", "--data", bad, "--order", ord}, 1, "line 3"},
+		{[]string{"discover", "--data", filepath.Join(dir, "none.csv"), "--order", ord}, 1, "no such file"},
+		{[]string{"discover", "--data", bad, "--order", ord, "--folds", "1"}, 2, "--folds 1"},
+		{[]string{"discover", "--data", bad, "--order", ord, "--rule", "best"}, 2, "unknown rule"},
+		{[]string{"discover", "--data", bad, "--order", ord, "--json", bad}, 1, "line 3"},
+		{[]string{"discover", "--data", bad, "--order", ord, "--stability-pairs", "5", "--stability-threshold", "0.4"}, 2, "(0.5, 1]"},
+		{[]string{"compare", "--estimate", bad, "--truth", bad}, 1, "from"},
+	}
+	for _, c := range cases {
+		_, errs, code := runCLI(t, c.args...)
+		if code != c.code || !strings.Contains(errs, c.want) || strings.Count(strings.TrimSpace(errs), "\n") > 0 {
+			t.Errorf("%v: exit %d, stderr %q; want exit %d mentioning %q on one line", c.args, code, errs, c.code, c.want)
+		}
+	}
+}
+
+func TestRefusesToOverwriteInput(t *testing.T) {
+	dir := t.TempDir()
+	data, ord, truth := filepath.Join(dir, "d.csv"), filepath.Join(dir, "o.txt"), filepath.Join(dir, "t.csv")
+	runCLI(t, "simulate", "--variables", "5", "--tiers", "2", "--rows", "200", "--data", data, "--order", ord, "--truth", truth)
+	before, _ := os.ReadFile(data)
+	_, errs, code := runCLI(t, "discover", "--data", data, "--order", ord, "--folds", "3", "--json", data)
+	after, _ := os.ReadFile(data)
+	if code == 0 || !strings.Contains(errs, "refusing") || !bytes.Equal(before, after) {
+		t.Errorf("exit %d %q; data changed: %v", code, errs, !bytes.Equal(before, after))
+	}
+}
