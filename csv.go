@@ -124,7 +124,7 @@ func ReadCSV(r io.Reader, opts *CSVOptions) (*Dataset, error) {
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) && errors.Is(pe.Err, csv.ErrFieldCount) {
-				return nil, &CSVError{Line: pe.Line, Err: fmt.Errorf("%w: %d fields, the header has %d", ErrCSV, len(rec), p)}
+				return nil, &CSVError{Line: pe.Line, Err: fmt.Errorf("%w: row has %d field(s), the header has %d", ErrCSV, len(rec), p)}
 			}
 			return nil, csvErr(err)
 		}

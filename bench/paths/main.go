@@ -48,6 +48,7 @@ var cases = []benchCase{
 	{"gaussian-residual-100k", "gaussian-residual", 100_000, 50, false, lasso.ResidualMode, 0, 1e-7},
 	{"binomial-100k", "binomial", 100_000, 50, true, 0, 0, 1e-4},
 	{"gaussian-cv-100k", "gaussian-cv", 100_000, 50, false, 0, 10, 1e-7},
+	{"binomial-cv-10k", "binomial-cv", 10_000, 50, true, 0, 10, 1e-4},
 	{"binomial-cv-100k", "binomial-cv", 100_000, 50, true, 0, 10, 1e-4},
 }
 

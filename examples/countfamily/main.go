@@ -14,7 +14,9 @@ import (
 	"math"
 	"math/rand/v2"
 
+	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/lasso"
+	"github.com/antecedent-lab/antecedent/order"
 )
 
 // Poisson is the loss for counts with the log link, mean exp(eta).
@@ -94,6 +96,23 @@ func run(ctx context.Context) (*lasso.Path, error) {
 	return lasso.Fit(ctx, lasso.Data{Columns: x, Response: y}, &lasso.Settings{Family: Poisson{}, NumPenalties: 40})
 }
 
+// discover uses the same family through antecedent.Discover: the count
+// variable is given the Poisson loss, and its parents are found among the
+// earlier predictors.
+func discover(ctx context.Context) (*antecedent.Result, error) {
+	x, y, _ := simulateVisits(2000, 8, 12)
+	names := []string{"x1", "x2", "x3", "x4", "x5", "x6", "x7", "x8", "visits"}
+	d, err := antecedent.NewDataset(names, append(x, y))
+	if err != nil {
+		return nil, err
+	}
+	if err := d.SetFamily("visits", Poisson{}); err != nil {
+		return nil, err
+	}
+	o := &order.Order{Tiers: [][]string{names[:8], {"visits"}}}
+	return antecedent.DiscoverContext(ctx, d, o, &antecedent.Config{Seed: 3})
+}
+
 func main() {
 	path, err := run(context.Background())
 	if err != nil {
@@ -108,4 +127,10 @@ func main() {
 		}
 		fmt.Println()
 	}
+	res, err := discover(context.Background())
+	if err != nil {
+		log.Fatal(err)
+	}
+	n, _ := res.Node("visits")
+	fmt.Printf("through Discover: visits (%s) has parents %v, %s %.3f\n", n.Family, n.Parents, n.Score.Measure, n.Score.Value)
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/antecedent-lab/antecedent/lasso"
@@ -82,5 +83,31 @@ func TestPoissonPath(t *testing.T) {
 func TestRun(t *testing.T) {
 	if _, err := run(context.Background()); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestDiscoverWithFamily checks that Discover uses the Poisson family for
+// the count node and finds its three simulated parents.
+func TestDiscoverWithFamily(t *testing.T) {
+	res, err := discover(context.Background())
+	if err != nil {
+		t.Fatal(err)
+	}
+	n, err := res.Node("visits")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n.Family != "poisson" || n.Score.Measure != "deviance explained" || !(n.Score.Value > 0.3) {
+		t.Errorf("node %s family %s score %+v", n.Name, n.Family, n.Score)
+	}
+	for _, p := range []string{"x1", "x2", "x3"} {
+		if !slices.Contains(n.Parents, p) {
+			t.Errorf("parents %v miss %s", n.Parents, p)
+		}
+	}
+	for _, e := range n.Effects {
+		if e.Parent == "x1" && math.Abs(float64(e.Estimate)-0.5) > 4*float64(e.SE) {
+			t.Errorf("x1 effect %g ± %g, simulated 0.5", e.Estimate, e.SE)
+		}
 	}
 }
