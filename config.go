@@ -114,6 +114,9 @@ func (c *Config) resolve() (Config, error) {
 	if _, err := cv.ParseMeasure(r.Measure.String()); err != nil {
 		return r, fmt.Errorf("%w: %v", ErrConfig, err)
 	}
+	if r.Measure == cv.DefaultMeasure {
+		r.Measure = cv.Deviance
+	}
 	if r.Mixing == 0 {
 		r.Mixing = 1
 	}

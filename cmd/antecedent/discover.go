@@ -12,6 +12,7 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/report"
 )
 
 // settings are the options shared by demo and discover.
@@ -29,6 +30,7 @@ type settings struct {
 	jsonOut   string
 	dotOut    string
 	graphml   string
+	report    string
 }
 
 func (s *settings) register(fs *flag.FlagSet) {
@@ -45,6 +47,7 @@ func (s *settings) register(fs *flag.FlagSet) {
 	fs.StringVar(&s.jsonOut, "json", "", "write the result as JSON to this file")
 	fs.StringVar(&s.dotOut, "dot", "", "write the graph in DOT to this file")
 	fs.StringVar(&s.graphml, "graphml", "", "write the graph as GraphML to this file")
+	fs.StringVar(&s.report, "report", "", "write a self-contained HTML report to this file")
 }
 
 func (s *settings) config() (*antecedent.Config, error) {
@@ -77,8 +80,19 @@ func (s *settings) config() (*antecedent.Config, error) {
 	return c, nil
 }
 
+// discover runs Discover with a progress bar on stderr when it is a
+// terminal and output is not quiet.
+func (s *settings) discover(ctx context.Context, d *antecedent.Dataset, o *order.Order, cfg *antecedent.Config, stderr io.Writer) (*antecedent.Result, error) {
+	if !s.quiet && isTerminal(stderr) {
+		bar := newProgressBar(stderr)
+		cfg.Progress = bar.update
+		defer bar.finish()
+	}
+	return antecedent.DiscoverContext(ctx, d, o, cfg)
+}
+
 // outputs writes the requested exports, refusing to overwrite inputs.
-func (s *settings) outputs(res *antecedent.Result, inputs ...string) error {
+func (s *settings) outputs(res *antecedent.Result, ropts *report.Options, inputs ...string) error {
 	type out struct {
 		path  string
 		write func(io.Writer) error
@@ -98,6 +112,7 @@ func (s *settings) outputs(res *antecedent.Result, inputs ...string) error {
 			return err
 		}},
 		{s.graphml, g.GraphML},
+		{s.report, func(w io.Writer) error { return report.Write(w, res, ropts) }},
 	}
 	for _, o := range outs {
 		if o.path == "" {
@@ -157,11 +172,11 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	res, err := antecedent.DiscoverContext(ctx, d, o, cfg)
+	res, err := s.discover(ctx, d, o, cfg, stderr)
 	if err != nil {
 		return err
 	}
-	if err := s.outputs(res, *dataPath, *orderPath); err != nil {
+	if err := s.outputs(res, &report.Options{Title: "Causal network of " + filepath.Base(*dataPath)}, *dataPath, *orderPath); err != nil {
 		return err
 	}
 	if !s.quiet {

@@ -8,6 +8,8 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/antecedent-lab/antecedent"
 )
 
 func runCLI(t *testing.T, args ...string) (string, string, int) {
@@ -22,9 +24,12 @@ func TestDemo(t *testing.T) {
 		t.Skip("long")
 	}
 	dir := t.TempDir()
-	out, errs, code := runCLI(t, "demo", "--out", dir)
+	out, errs, code := runCLI(t, "demo", "--out", dir, "--report", filepath.Join(dir, "demo.html"))
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if strings.Contains(errs, "\r") {
+		t.Error("progress bar drawn although stderr is not a terminal")
 	}
 	for _, s := range []string{"Tier 1 — traits", "length_of_stay", "AUC", "R²", "Against the known true graph", "precision", "Caution"} {
 		if !strings.Contains(out, s) {
@@ -44,6 +49,9 @@ func TestDemo(t *testing.T) {
 	}
 	if dot, err := os.ReadFile(filepath.Join(dir, "network.dot")); err != nil || !strings.Contains(string(dot), "digraph") {
 		t.Fatalf("network.dot: %v", err)
+	}
+	if html, err := os.ReadFile(filepath.Join(dir, "demo.html")); err != nil || !strings.Contains(string(html), "Recovery after joint replacement") {
+		t.Fatalf("demo.html: %v", err)
 	}
 }
 
@@ -109,5 +117,22 @@ func TestRefusesToOverwriteInput(t *testing.T) {
 	after, _ := os.ReadFile(data)
 	if code == 0 || !strings.Contains(errs, "refusing") || !bytes.Equal(before, after) {
 		t.Errorf("exit %d %q; data changed: %v", code, errs, !bytes.Equal(before, after))
+	}
+}
+
+func TestProgressBar(t *testing.T) {
+	var b bytes.Buffer
+	p := newProgressBar(&b)
+	p.update(antecedent.Progress{Done: 3, Total: 12, Stage: "nodes"})
+	if s := b.String(); !strings.Contains(s, "nodes 3/12 [#######-----") || !strings.Contains(s, "left") {
+		t.Errorf("bar %q", s)
+	}
+	p.finish()
+	if !strings.HasSuffix(b.String(), "\r") {
+		t.Error("finish does not clear the line")
+	}
+	// Not a terminal: no bar.
+	if isTerminal(&b) {
+		t.Error("a buffer is not a terminal")
 	}
 }
