@@ -14,7 +14,7 @@ import (
 func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("demo", "[options]", stderr)
 	var s settings
-	dir := fs.String("out", "antecedent-demo", "folder for result.json and network.dot (empty: write nothing)")
+	dir := fs.String("out", "antecedent-demo", "folder for result.json, network.dot and report.html (empty: write nothing)")
 	s.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
@@ -45,6 +45,9 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		}
 		if s.dotOut == "" {
 			s.dotOut = filepath.Join(*dir, "network.dot")
+		}
+		if s.report == "" {
+			s.report = filepath.Join(*dir, "report.html")
 		}
 	}
 	ropts := &report.Options{Title: "Recovery after joint replacement — synthetic demonstration", Truth: truth}
