@@ -120,7 +120,6 @@ func ReadCSV(r io.Reader, opts *CSVOptions) (*Dataset, error) {
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		line, _ := cr.FieldPos(0)
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) && errors.Is(pe.Err, csv.ErrFieldCount) {
@@ -128,6 +127,7 @@ func ReadCSV(r io.Reader, opts *CSVOptions) (*Dataset, error) {
 			}
 			return nil, csvErr(err)
 		}
+		line, _ := cr.FieldPos(0)
 		row := rows
 		if o.MaxRows > 0 && row >= o.MaxRows {
 			return nil, &CSVError{Line: line, Err: fmt.Errorf("%w: more than %d rows", ErrCSV, o.MaxRows)}

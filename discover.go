@@ -2,8 +2,10 @@ package antecedent
 
 import (
 	"context"
+	"encoding/binary"
 	"errors"
 	"fmt"
+	"hash/fnv"
 	"math"
 	"slices"
 	"sort"
@@ -156,6 +158,7 @@ func (r *run) prepare(ctx context.Context) error {
 			}
 		}
 	}
+	r.dataWarnings()
 	n := d.rows
 	if r.baseRows != nil {
 		n = len(r.baseRows)
@@ -210,6 +213,60 @@ func (r *run) prepare(ctx context.Context) error {
 		}
 	}
 	return nil
+}
+
+// dataWarnings notes constant variables and identical columns, whose
+// edges cannot be estimated or told apart.
+func (r *run) dataWarnings() {
+	d := r.d
+	seen := map[uint64][]int{}
+	for v, cols := range d.varCols {
+		c := d.cols[cols[0]]
+		first, constant := math.NaN(), true
+		h := fnv.New64a()
+		var buf [8]byte
+		forEach(d.rows, r.baseRows, func(i int) {
+			x := c[i]
+			if math.IsNaN(x) {
+				return
+			}
+			if math.IsNaN(first) {
+				first = x
+			} else if x != first {
+				constant = false
+			}
+		})
+		if constant && len(cols) == 1 {
+			r.warnings = append(r.warnings, fmt.Sprintf("%s is constant over the rows used; it cannot be a parent", d.vars[v].Name))
+			continue
+		}
+		if len(cols) > 1 {
+			continue
+		}
+		forEach(d.rows, r.baseRows, func(i int) {
+			binary.LittleEndian.PutUint64(buf[:], math.Float64bits(c[i]))
+			h.Write(buf[:])
+		})
+		key := h.Sum64()
+		for _, u := range seen[key] {
+			if slices.Equal(d.cols[d.varCols[u][0]], c) {
+				r.warnings = append(r.warnings, fmt.Sprintf("%s and %s hold identical values; edges from them cannot be told apart", d.vars[u].Name, d.vars[v].Name))
+			}
+		}
+		seen[key] = append(seen[key], v)
+	}
+}
+
+func forEach(n int, rows []int, f func(i int)) {
+	if rows == nil {
+		for i := range n {
+			f(i)
+		}
+		return
+	}
+	for _, i := range rows {
+		f(i)
+	}
 }
 
 func (r *run) family(v int) lasso.Family {
@@ -343,8 +400,8 @@ func (r *run) crossValidate(ctx context.Context, v int, cands []int) (cvOut, err
 	if rows != nil {
 		n = len(rows)
 	}
-	if n < r.cfg.Folds {
-		return out, fmt.Errorf("%w: %d usable rows for %d folds", ErrData, n, r.cfg.Folds)
+	if n < 2*r.cfg.Folds {
+		return out, &tooFewRows{rows: n, folds: r.cfg.Folds}
 	}
 	seed := r.cfg.Seed + uint64(v)*0x9e3779b97f4a7c15
 	var folds *cv.Folds
@@ -379,6 +436,13 @@ func (r *run) crossValidate(ctx context.Context, v int, cands []int) (cvOut, err
 	out.res = res
 	out.oof = r.outOfFold(res, v, rows, folds)
 	return out, nil
+}
+
+// tooFewRows reports a node with too few usable rows to cross-validate.
+type tooFewRows struct{ rows, folds int }
+
+func (e *tooFewRows) Error() string {
+	return fmt.Sprintf("antecedent: %d usable rows for %d folds", e.rows, e.folds)
 }
 
 func rowAt(rows []int, t int) int {
@@ -422,13 +486,20 @@ func (r *run) fitNode(ctx context.Context, v int, node *Node) (nodeFit, error) {
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			return fit, err
 		}
-		if errors.Is(err, lasso.ErrConstantResponse) {
+		var few *tooFewRows
+		switch {
+		case errors.As(err, &few):
+			node.Warnings = append(node.Warnings, fmt.Sprintf("only %d usable rows, too few for %d-fold cross-validation; not fitted", few.rows, few.folds))
+		case errors.Is(err, lasso.ErrConstantResponse) && r.variance(v, rows) == 0:
 			node.Warnings = append(node.Warnings, "constant over the rows used; no parents estimated")
-			fit.parents = slices.Clone(r.plan.Required[v])
-			node.Parents = r.names(fit.parents)
-			return fit, nil
+		case errors.Is(err, lasso.ErrConstantResponse):
+			node.Warnings = append(node.Warnings, "too little variation to cross-validate (a training fold holds a single value); no parents estimated")
+		default:
+			return fit, fmt.Errorf("antecedent: node %q: %w", r.d.vars[v].Name, err)
 		}
-		return fit, fmt.Errorf("antecedent: node %q: %w", r.d.vars[v].Name, err)
+		fit.parents = slices.Clone(r.plan.Required[v])
+		node.Parents = r.names(fit.parents)
+		return fit, nil
 	}
 	node.Fitted = true
 	node.Rows = r.d.rows

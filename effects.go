@@ -2,6 +2,7 @@ package antecedent
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -53,39 +54,52 @@ func (r *run) refit(ctx context.Context, v int, parents, rows []int, node *Node)
 	if gaussian {
 		b0 = m.Mean(k)
 		if k > 0 {
+			// Solve on the correlation scale so that predictors on very
+			// different scales stay well conditioned.
+			scale := make([]float64, k)
+			for a := range k {
+				scale[a] = sd[a]
+				if scale[a] == 0 {
+					scale[a] = 1
+				}
+			}
 			c := mat.NewSymDense(k, nil)
 			rhs := mat.NewVecDense(k, nil)
 			for a := range k {
-				rhs.SetVec(a, m.Covariance(a, k))
+				rhs.SetVec(a, m.Covariance(a, k)/scale[a])
 				for b := a; b < k; b++ {
-					c.SetSym(a, b, m.Covariance(a, b))
+					c.SetSym(a, b, m.Covariance(a, b)/(scale[a]*scale[b]))
 				}
 			}
 			var ch mat.Cholesky
-			if !ch.Factorize(c) {
+			var b mat.VecDense
+			ok := ch.Factorize(c)
+			if ok {
+				if err := ch.SolveVecTo(&b, rhs); err != nil {
+					var cond mat.Condition
+					ok = errors.As(err, &cond) && float64(cond) < 1e14
+				}
+			}
+			if !ok {
 				node.Warnings = append(node.Warnings, "parents are collinear; effects not estimated")
 				for t := range est {
 					est[t] = math.NaN()
 				}
 				b0 = math.NaN()
 			} else {
-				var b mat.VecDense
-				if err := ch.SolveVecTo(&b, rhs); err != nil {
-					return err
-				}
 				rss := m.Covariance(k, k)
 				for a := range k {
-					est[a] = b.AtVec(a)
-					rss -= est[a] * rhs.AtVec(a)
+					est[a] = b.AtVec(a) / scale[a]
+					rss -= b.AtVec(a) * rhs.AtVec(a)
 					b0 -= est[a] * m.Mean(a)
 				}
 				df := float64(n - k - 1)
 				if df > 0 {
 					sigma2 := math.Max(rss, 0) * m.Weight / df
 					var inv mat.SymDense
-					if err := ch.InverseTo(&inv); err == nil {
+					if err := ch.InverseTo(&inv); err == nil || isCondition(err) {
 						for a := range k {
-							se[a] = math.Sqrt(sigma2 * inv.At(a, a) / m.Weight)
+							se[a] = math.Sqrt(sigma2*inv.At(a, a)/m.Weight) / scale[a]
 						}
 					}
 				}
@@ -135,6 +149,11 @@ func (r *run) refit(ctx context.Context, v int, parents, rows []int, node *Node)
 // step halving on the deviance, starting from the null model. It returns
 // the intercept, the coefficients, their standard errors (the inverse
 // information, dispersion 1) and a warning, empty when all went well.
+func isCondition(err error) bool {
+	var cond mat.Condition
+	return errors.As(err, &cond) && float64(cond) < 1e14
+}
+
 func newtonGLM(ctx context.Context, fam lasso.Family, all [][]float64, cols []int, y []float64, rows []int, b0 float64) (float64, []float64, []float64, string) {
 	k := len(cols)
 	n := len(y)
@@ -146,10 +165,26 @@ func newtonGLM(ctx context.Context, fam lasso.Family, all [][]float64, cols []in
 	eta := make([]float64, n)
 	x := make([]float64, k+1)
 	x[0] = 1
+	// Work on predictors divided by their standard deviations, so that
+	// very different scales stay well conditioned.
+	scale := make([]float64, k)
+	for a, c := range cols {
+		var s1, s2 float64
+		for t := range n {
+			v := all[c][rowAt(rows, t)]
+			s1 += v
+			s2 += v * v
+		}
+		m := s1 / float64(n)
+		scale[a] = math.Sqrt(math.Max(s2/float64(n)-m*m, 0))
+		if !(scale[a] > 0) {
+			scale[a] = 1
+		}
+	}
 	row := func(t int) []float64 {
 		i := rowAt(rows, t)
 		for a, c := range cols {
-			x[a+1] = all[c][i]
+			x[a+1] = all[c][i] / scale[a]
 		}
 		return x
 	}
@@ -200,7 +235,7 @@ func newtonGLM(ctx context.Context, fam lasso.Family, all [][]float64, cols []in
 			return nanAll("parents are collinear; effects not estimated")
 		}
 		var step mat.VecDense
-		if err := ch.SolveVecTo(&step, rhs); err != nil {
+		if err := ch.SolveVecTo(&step, rhs); err != nil && !isCondition(err) {
 			return nanAll("parents are collinear; effects not estimated")
 		}
 		trial := make([]float64, k+1)
@@ -243,16 +278,25 @@ func newtonGLM(ctx context.Context, fam lasso.Family, all [][]float64, cols []in
 		}
 	}
 	est := slices.Clone(beta[1:])
+	for a := range est {
+		est[a] /= scale[a]
+	}
 	se := make([]float64, k)
 	var inv mat.SymDense
-	if !ch.Factorize(info) || ch.InverseTo(&inv) != nil {
+	if !ch.Factorize(info) {
+		for a := range se {
+			se[a] = math.NaN()
+		}
+		return beta[0], est, se, "information matrix is singular; standard errors not estimated"
+	}
+	if err := ch.InverseTo(&inv); err != nil && !isCondition(err) {
 		for a := range se {
 			se[a] = math.NaN()
 		}
 		return beta[0], est, se, "information matrix is singular; standard errors not estimated"
 	}
 	for a := range se {
-		se[a] = math.Sqrt(inv.At(a+1, a+1))
+		se[a] = math.Sqrt(inv.At(a+1, a+1)) / scale[a]
 	}
 	msg := ""
 	switch {

@@ -237,10 +237,10 @@ func ReadEdgeCSV(r io.Reader) (*Graph, error) {
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		line, _ := cr.FieldPos(0)
 		if err != nil {
 			return nil, fmt.Errorf("%w: %v", ErrFormat, err)
 		}
+		line, _ := cr.FieldPos(0)
 		if from >= len(rec) || to >= len(rec) {
 			return nil, fmt.Errorf("%w: line %d has %d fields", ErrFormat, line, len(rec))
 		}
