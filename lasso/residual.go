@@ -40,6 +40,7 @@ type residualEngine struct {
 	etaOld  []float64
 	dev     float64 // deviance at the current eta, when devOK
 	devOK   bool
+	wantDev bool // working also computes the deviance, sharing its exponentials
 }
 
 func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
@@ -165,13 +166,13 @@ func (e *residualEngine) working() {
 		fam := e.r.fam
 		_, binomial := fam.(Binomial)
 		var dev float64
+		wantDev := e.wantDev && !e.devOK
 		for t, y := range e.y {
 			eta := e.eta[t]
 			w := e.omega[t]
 			var hw, rr float64
 			if binomial {
-				// One exponential serves the weight, the residual and
-				// the deviance.
+				// One exponential serves the weight and the residual.
 				ex := math.Exp(-math.Abs(eta))
 				mu := 1 / (1 + ex)
 				if eta < 0 {
@@ -185,14 +186,18 @@ func (e *residualEngine) working() {
 				}
 				hw = m * (1 - m)
 				rr = (y - mu) / hw
-				pos := eta
-				if pos < 0 {
-					pos = 0
+				if wantDev {
+					pos := eta
+					if pos < 0 {
+						pos = 0
+					}
+					dev += w * 2 * (math.Log1p(ex) + pos - y*eta)
 				}
-				dev += w * 2 * (math.Log1p(ex) + pos - y*eta)
 			} else {
 				hw, rr = fam.Working(y, eta)
-				dev += w * e.unitDeviance(y, eta)
+				if wantDev {
+					dev += w * e.unitDeviance(y, eta)
+				}
 			}
 			e.h[t] = w * hw
 			e.hr[t] = e.h[t] * rr
@@ -200,7 +205,9 @@ func (e *residualEngine) working() {
 			e.sumH += e.h[t]
 			e.sumR += e.hr[t]
 		}
-		e.dev, e.devOK = dev*e.total, true
+		if wantDev {
+			e.dev, e.devOK = dev*e.total, true
+		}
 	}
 	e.fresh = true
 }
@@ -316,7 +323,6 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 	}
 	sweeps := 0
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
-		fOld := e.objective(lam, set)
 		e.working()
 		for _, j := range set {
 			if !e.excl[j] {
@@ -326,47 +332,57 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		copy(e.old, e.beta)
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
+		oldDev, oldDevOK := e.dev, e.devOK
 		sw, ok := descend(e, lam, set, e.tolAbs, e.r.maxSweeps-sweeps, e.active)
 		sweeps += sw
+		var step float64
 		for t := range e.eta {
-			e.eta[t] = e.z[t] - e.hr[t]/e.h[t]
+			eta := e.z[t] - e.hr[t]/e.h[t]
+			step = math.Max(step, math.Abs(eta-e.etaOld[t]))
+			e.eta[t] = eta
 		}
 		e.fresh, e.devOK = false, false
 		if !ok {
 			return sweeps, false
 		}
-		e.working() // weights for the next step and the deviance, in one pass
-		// A full Newton step can overshoot far from the optimum; halve it
-		// until the penalised objective does not increase.
-		fNew := e.objective(lam, set)
-		for halvings := 0; fNew > fOld+1e-13*math.Abs(fOld); halvings++ {
-			if halvings == 40 {
-				// No decrease along the step: the fit is at the optimum
-				// to rounding. Keep the previous point.
-				copy(e.beta, e.old)
-				copy(e.eta, e.etaOld)
-				e.b0 = oldB0
+		// A full Newton step can overshoot far from the optimum. Steps
+		// that move no linear predictor by more than 1 stay where the
+		// quadratic model is good; larger ones are halved until the
+		// penalised objective does not increase.
+		if step > 1 {
+			fOld := e.objectiveAt(lam, set, e.etaOld, e.old, oldDev, oldDevOK)
+			fNew := e.objective(lam, set)
+			for halvings := 0; fNew > fOld+1e-13*math.Abs(fOld); halvings++ {
+				if halvings == 40 {
+					// No decrease along the step: the fit is at the
+					// optimum to rounding. Keep the previous point.
+					copy(e.beta, e.old)
+					copy(e.eta, e.etaOld)
+					e.b0 = oldB0
+					e.fresh, e.devOK = false, false
+					return sweeps, true
+				}
+				for _, j := range set {
+					e.beta[j] = (e.beta[j] + e.old[j]) / 2
+				}
+				e.b0 = (e.b0 + oldB0) / 2
+				for t := range e.eta {
+					e.eta[t] = (e.eta[t] + e.etaOld[t]) / 2
+				}
 				e.fresh, e.devOK = false, false
+				fNew = e.objective(lam, set)
+			}
+			if e.saturated() {
+				// A saturated fit has no finite optimum; runPath reports it.
 				return sweeps, true
 			}
-			for _, j := range set {
-				e.beta[j] = (e.beta[j] + e.old[j]) / 2
-			}
-			e.b0 = (e.b0 + oldB0) / 2
-			for t := range e.eta {
-				e.eta[t] = (e.eta[t] + e.etaOld[t]) / 2
-			}
-			e.fresh, e.devOK = false, false
-			e.working()
-			fNew = e.objective(lam, set)
 		}
 		d := e.sumH * (e.b0 - oldB0) * (e.b0 - oldB0)
 		for _, j := range set {
 			dj := e.beta[j] - e.old[j]
 			d = math.Max(d, e.xv[j]*dj*dj)
 		}
-		if d < e.tolAbs || e.saturated() {
-			// A saturated fit has no finite optimum; runPath reports it.
+		if d < e.tolAbs {
 			return sweeps, true
 		}
 	}
@@ -377,6 +393,25 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 // saturation limit.
 func (e *residualEngine) saturated() bool {
 	return e.nullDev > 0 && 1-e.deviance()/e.nullDev >= e.r.saturation
+}
+
+// objectiveAt returns the penalised objective at linear predictor eta and
+// standardised coefficients beta, reusing dev when known.
+func (e *residualEngine) objectiveAt(lam float64, set []int, eta, beta []float64, dev float64, known bool) float64 {
+	if !known {
+		dev = 0
+		for t, w := range e.omega {
+			dev += w * e.unitDeviance(e.y[t], eta[t])
+		}
+		dev *= e.total
+	}
+	f := dev / (2 * e.total)
+	for _, j := range set {
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		b := beta[j]
+		f += l1*math.Abs(b) + l2/2*b*b
+	}
+	return f
 }
 
 // objective returns the penalised objective at the current fit:
@@ -392,7 +427,11 @@ func (e *residualEngine) objective(lam float64, set []int) float64 {
 }
 
 func (e *residualEngine) gradient(g []float64, skip []bool) {
+	// The path records the deviance after each penalty: form it in the
+	// same pass as the weights.
+	e.wantDev = true
 	e.working()
+	e.wantDev = false
 	for j := range g {
 		if skip != nil && skip[j] {
 			continue

@@ -1,0 +1,345 @@
+// Command discover times the whole job — a penalised, cross-validated
+// regression of every variable on the earlier tiers — in antecedent and in
+// two scikit-learn pipelines doing the same work (bench/discover_reference.py),
+// side by side in one run, and prints a Markdown table of wall times, peak
+// memory, ratios and how far the edge sets agree.
+//
+//	go run ./bench/discover                        # the S and M cases
+//	go run ./bench/discover -cases L-continuous -python-nodes 20
+//	go run ./bench/discover -cases scale -skip-python
+//
+// Each side runs in its own process so that its peak resident memory can
+// be read. The data are drawn by package simulate with a fixed seed.
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/binary"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"log"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"runtime"
+	"slices"
+	"strings"
+	"syscall"
+	"time"
+
+	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/simulate"
+)
+
+type benchCase struct {
+	name   string
+	n, p   int
+	binary float64
+}
+
+var sizes = []struct {
+	label string
+	n, p  int
+}{{"S", 2_000, 30}, {"M", 20_000, 100}, {"L", 100_000, 200}}
+
+func allCases() []benchCase {
+	var out []benchCase
+	for _, s := range sizes {
+		for _, k := range []struct {
+			name  string
+			share float64
+		}{{"continuous", 0}, {"binary", 1}, {"mixed", 0.5}} {
+			out = append(out, benchCase{s.label + "-" + k.name, s.n, s.p, k.share})
+		}
+	}
+	for _, n := range []int{25_000, 50_000, 100_000, 200_000} {
+		out = append(out, benchCase{fmt.Sprintf("scale-n%d", n), n, 50, 0})
+	}
+	out = append(out, benchCase{"wide-p1000", 10_000, 1000, 0}, benchCase{"huge-n1m", 1_000_000, 100, 0})
+	return out
+}
+
+const folds = 10
+
+func main() {
+	child := flag.Bool("child", false, "internal: run antecedent on -data and report")
+	dataPath := flag.String("data", "", "internal: data file")
+	n := flag.Int("n", 0, "internal: rows")
+	p := flag.Int("p", 0, "internal: columns")
+	orderPath := flag.String("order", "", "internal: order file")
+	outPath := flag.String("out", "", "internal: result file")
+	only := flag.String("cases", "S-continuous,S-binary,S-mixed,M-continuous,M-binary,M-mixed", "comma-separated cases, or prefixes such as L or scale")
+	pyNodes := flag.Int("python-nodes", 0, "run scikit-learn on this many nodes (evenly spaced) and scale its time up; 0 = all")
+	skipPy := flag.Bool("skip-python", false, "time antecedent only")
+	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
+	flag.Parse()
+	if *child {
+		if err := runChild(*dataPath, *n, *p, *orderPath, *outPath); err != nil {
+			log.Fatal(err)
+		}
+		return
+	}
+	_, file, _, _ := runtime.Caller(0)
+	script := filepath.Join(filepath.Dir(file), "..", "discover_reference.py")
+	dir, err := os.MkdirTemp("", "antecedent-discover-")
+	if err != nil {
+		log.Fatal(err)
+	}
+	defer os.RemoveAll(dir)
+	fmt.Printf("machine: %d cores, %s; folds %d, one-standard-error rule, 100 penalties per node\n\n", runtime.NumCPU(), runtime.Version(), folds)
+	fmt.Println("| case | n | p | edges | antecedent s | peak MiB (raw data MiB) | plain s | tuned s | vs plain | vs tuned | scikit-learn peak MiB (plain / tuned) | edge agreement |")
+	fmt.Println("|---|---|---|---|---|---|---|---|---|---|---|---|")
+	for _, c := range allCases() {
+		if !selected(c.name, *only) {
+			continue
+		}
+		row, err := runCase(c, dir, script, *python, *pyNodes, *skipPy)
+		if err != nil {
+			log.Fatalf("%s: %v", c.name, err)
+		}
+		fmt.Println(row)
+	}
+}
+
+func selected(name, list string) bool {
+	for _, s := range strings.Split(list, ",") {
+		if s != "" && (name == s || strings.HasPrefix(name, s+"-")) {
+			return true
+		}
+	}
+	return false
+}
+
+type childReport struct {
+	Seconds float64 `json:"seconds"`
+	PeakKiB int64   `json:"peak_kib"`
+}
+
+func runChild(path string, n, p int, orderPath, out string) error {
+	f, err := os.Open(path)
+	if err != nil {
+		return err
+	}
+	cols := make([][]float64, p)
+	names := make([]string, p)
+	for j := range cols {
+		cols[j] = make([]float64, n)
+		if err := binary.Read(f, binary.LittleEndian, cols[j]); err != nil {
+			return err
+		}
+		names[j] = fmt.Sprintf("v%0*d", len(fmt.Sprint(p)), j+1)
+	}
+	f.Close()
+	of, err := os.Open(orderPath)
+	if err != nil {
+		return err
+	}
+	o, err := order.Parse(of)
+	of.Close()
+	if err != nil {
+		return err
+	}
+	d, err := antecedent.NewDataset(names, cols)
+	if err != nil {
+		return err
+	}
+	start := time.Now()
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 1, Folds: folds})
+	if err != nil {
+		return err
+	}
+	secs := time.Since(start).Seconds()
+	var ru syscall.Rusage
+	syscall.Getrusage(syscall.RUSAGE_SELF, &ru)
+	rf, err := os.Create(out)
+	if err != nil {
+		return err
+	}
+	if err := res.WriteJSON(rf); err != nil {
+		return err
+	}
+	rf.Close()
+	return json.NewEncoder(os.Stdout).Encode(childReport{Seconds: secs, PeakKiB: ru.Maxrss})
+}
+
+func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool) (string, error) {
+	m, o, err := simulate.Random(simulate.RandomSettings{Variables: c.p, Tiers: 5, BinaryShare: c.binary}, uint64(c.n+c.p))
+	if err != nil {
+		return "", err
+	}
+	s, err := m.Sample(c.n, 7)
+	if err != nil {
+		return "", err
+	}
+	dataPath := filepath.Join(dir, c.name+".f64")
+	f, err := os.Create(dataPath)
+	if err != nil {
+		return "", err
+	}
+	for _, col := range s.Columns {
+		if err := binary.Write(f, binary.LittleEndian, col); err != nil {
+			return "", err
+		}
+	}
+	f.Close()
+	orderPath := filepath.Join(dir, c.name+".order")
+	var ob bytes.Buffer
+	o.WriteText(&ob)
+	os.WriteFile(orderPath, ob.Bytes(), 0o644)
+	resPath := filepath.Join(dir, c.name+".json")
+	self, _ := os.Executable()
+	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath).Output()
+	if err != nil {
+		return "", fmt.Errorf("antecedent child: %v", err)
+	}
+	var ours childReport
+	if err := json.Unmarshal(out, &ours); err != nil {
+		return "", err
+	}
+	rf, err := os.Open(resPath)
+	if err != nil {
+		return "", err
+	}
+	res, err := antecedent.ReadResult(rf)
+	rf.Close()
+	if err != nil {
+		return "", err
+	}
+	// The original data are freed by the child; s is only needed for fold ids.
+	raw := float64(c.n*c.p*8) / (1 << 20)
+	row := fmt.Sprintf("| %s | %d | %d | %d | %.2f | %.0f (%.0f) |", c.name, c.n, c.p, len(res.Edges), ours.Seconds, float64(ours.PeakKiB)/1024, raw)
+	if skipPy {
+		return row + " – | – | – | – | – | – |", nil
+	}
+	spec, fitted, run, err := writeSpec(dir, c, res, s, pyNodes)
+	if err != nil {
+		return "", err
+	}
+	var times [2]float64
+	var peaks [2]float64
+	var agree [2]string
+	for k, pipeline := range []string{"plain", "tuned"} {
+		cmd := exec.Command(python, script, spec, pipeline)
+		cmd.Env = append(os.Environ(), "OMP_NUM_THREADS=2", "OPENBLAS_NUM_THREADS=2")
+		cmd.Stderr = os.Stderr
+		outb, err := cmd.Output()
+		if err != nil {
+			return "", fmt.Errorf("python %s: %v", pipeline, err)
+		}
+		var py struct {
+			Seconds float64          `json:"seconds"`
+			PeakKiB float64          `json:"peak_kib"`
+			Nodes   int              `json:"nodes"`
+			Parents map[string][]int `json:"parents"`
+		}
+		if err := json.Unmarshal(outb, &py); err != nil {
+			return "", err
+		}
+		times[k] = py.Seconds * float64(fitted) / float64(py.Nodes)
+		peaks[k] = py.PeakKiB / 1024
+		agree[k] = agreement(res, py.Parents)
+	}
+	est := ""
+	if run < fitted {
+		est = fmt.Sprintf(" (est. from %d of %d nodes)", run, fitted)
+	}
+	return row + fmt.Sprintf(" %.1f%s | %.1f%s | %.1f× | %.1f× | %.0f / %.0f | plain: %s; tuned: %s |",
+		times[0], est, times[1], est, times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), nil
+}
+
+type specNode struct {
+	Index      int       `json:"index"`
+	Slot       int       `json:"slot"`
+	Binary     bool      `json:"binary"`
+	Candidates []int     `json:"candidates"`
+	Penalties  []float64 `json:"penalties"`
+	Run        bool      `json:"run"`
+}
+
+// writeSpec writes the per-node candidates, grids and fold ids that
+// antecedent used. Folds are recomputed as Discover assigns them: one
+// random assignment shared by the continuous nodes, a stratified one per
+// binary node.
+func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Sample, pyNodes int) (string, int, int, error) {
+	index := map[string]int{}
+	for i, nd := range res.Nodes {
+		index[nd.Name] = i
+	}
+	var nodes []specNode
+	var ids []byte
+	shared, _ := cv.Random(c.n, folds, 1)
+	for i, nd := range res.Nodes {
+		if !nd.Fitted {
+			continue
+		}
+		sn := specNode{Index: i, Slot: len(nodes), Binary: nd.Kind == antecedent.Binary}
+		for _, cand := range nd.Candidates {
+			sn.Candidates = append(sn.Candidates, index[cand])
+		}
+		for _, pt := range nd.Curve {
+			sn.Penalties = append(sn.Penalties, float64(pt.Penalty))
+		}
+		f := shared
+		if sn.Binary {
+			f, _ = cv.Stratified(s.Columns[i], folds, 1+uint64(i)*0x9e3779b97f4a7c15)
+		}
+		for _, id := range f.ID {
+			ids = append(ids, byte(id))
+		}
+		nodes = append(nodes, sn)
+	}
+	run := len(nodes)
+	if pyNodes > 0 && pyNodes < len(nodes) {
+		run = pyNodes
+	}
+	for k := range run {
+		nodes[k*len(nodes)/run].Run = true
+	}
+	foldPath := filepath.Join(dir, c.name+".folds")
+	if err := os.WriteFile(foldPath, ids, 0o644); err != nil {
+		return "", 0, 0, err
+	}
+	spec := map[string]any{"n": c.n, "p": c.p, "data": filepath.Join(dir, c.name+".f64"), "folds": foldPath,
+		"nodes": nodes, "tol": 1e-4, "jobs": 2}
+	b, _ := json.Marshal(spec)
+	path := filepath.Join(dir, c.name+".spec.json")
+	return path, len(nodes), run, os.WriteFile(path, b, 0o644)
+}
+
+// agreement compares parent sets on the nodes scikit-learn ran.
+func agreement(res *antecedent.Result, parents map[string][]int) string {
+	index := map[string]int{}
+	for i, nd := range res.Nodes {
+		index[nd.Name] = i
+	}
+	same, diff, total := 0, 0, 0
+	for k, ps := range parents {
+		var i int
+		fmt.Sscan(k, &i)
+		var ours []int
+		for _, p := range res.Nodes[i].Parents {
+			ours = append(ours, index[p])
+		}
+		slices.Sort(ours)
+		slices.Sort(ps)
+		if slices.Equal(ours, ps) {
+			same++
+		}
+		for _, p := range ours {
+			if !slices.Contains(ps, p) {
+				diff++
+			}
+		}
+		for _, p := range ps {
+			if !slices.Contains(ours, p) {
+				diff++
+			}
+		}
+		total += len(ours)
+	}
+	return fmt.Sprintf("%d/%d nodes identical, %d of %d edges differ", same, len(parents), diff, total)
+}
