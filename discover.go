@@ -518,17 +518,32 @@ func (r *run) fitNode(ctx context.Context, v int, node *Node) (nodeFit, error) {
 	for _, p := range res.Curve {
 		node.Curve = append(node.Curve, CurvePoint{Penalty: Number(p.Penalty), Mean: Number(p.Mean), SE: Number(p.SE), NonZero: p.NonZero})
 	}
-	node.Path = &CoefficientPath{Terms: make([]string, len(cols)), Values: make([][]Number, len(cols))}
+	// Coefficient paths of the terms that are ever non-zero (the others
+	// are zero throughout), so the result stays small for wide data.
+	ever := make([]bool, len(cols))
+	for k := range full.Len() {
+		for _, t := range full.Coefficients[k].Index {
+			ever[t] = true
+		}
+	}
+	node.Path = &CoefficientPath{Terms: []string{}, Values: [][]Number{}}
+	slot := make([]int, len(cols))
 	for t, c := range cols {
-		node.Path.Terms[t] = r.d.termName(c)
-		node.Path.Values[t] = make([]Number, full.Len())
+		slot[t] = -1
+		if ever[t] {
+			slot[t] = len(node.Path.Terms)
+			node.Path.Terms = append(node.Path.Terms, r.d.termName(c))
+			node.Path.Values = append(node.Path.Values, make([]Number, full.Len()))
+		}
 	}
 	b := make([]float64, len(cols))
 	for k := range full.Len() {
 		node.Path.Penalties = append(node.Path.Penalties, Number(full.Penalties[k]))
 		full.CoefficientsTo(b, k)
 		for t := range cols {
-			node.Path.Values[t][k] = Number(b[t])
+			if slot[t] >= 0 {
+				node.Path.Values[slot[t]][k] = Number(b[t])
+			}
 		}
 	}
 	_, sel := res.Model()

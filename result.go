@@ -114,7 +114,8 @@ type CurvePoint struct {
 }
 
 // CoefficientPath holds Values[t][k], the coefficient of term t at
-// penalty k.
+// penalty k, for the terms that are non-zero at some penalty (the others
+// are zero along the whole path).
 type CoefficientPath struct {
 	Penalties []Number   `json:"penalties"`
 	Terms     []string   `json:"terms"`

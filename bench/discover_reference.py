@@ -68,7 +68,8 @@ def plain_node(data, node, folds, tol, jobs):
                                  scoring="neg_log_loss", n_jobs=jobs, refit=False).fit(X, y)
         sc = m.scores_[1.0]  # folds x Cs, larger is better
         k = one_se(sc.mean(axis=0), sc.std(axis=0, ddof=1) / np.sqrt(K), larger_better=True)
-        fit = LogisticRegression(penalty="l1", solver="saga", C=cs[k], tol=tol, max_iter=1000).fit(X, y)
+        # The full-data refit has n rows, so its C is 1/(n·λ).
+        fit = LogisticRegression(penalty="l1", solver="saga", C=1 / (len(y) * grid[k]), tol=tol, max_iter=1000).fit(X, y)
         coef = fit.coef_[0]
     else:
         m = LassoCV(alphas=grid, cv=splits, tol=tol, n_jobs=jobs).fit(X, y)
@@ -146,7 +147,8 @@ def tuned_binary(data, node, folds, tol, jobs):
                              scoring="neg_log_loss", n_jobs=jobs, refit=False).fit(X, y)
     sc = m.scores_[1.0]
     k = one_se(sc.mean(axis=0), sc.std(axis=0, ddof=1) / np.sqrt(K), larger_better=True)
-    fit = LogisticRegression(penalty="l1", solver="liblinear", intercept_scaling=100, C=cs[k], tol=tol).fit(X, y)
+    fit = LogisticRegression(penalty="l1", solver="liblinear", intercept_scaling=100, C=1 / (len(y) * grid[k]),
+                             tol=tol).fit(X, y)
     return [node["candidates"][j] for j in np.nonzero(fit.coef_[0])[0]]
 
 

@@ -48,16 +48,12 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, len(held))}
 	grid := full.Penalties
 	err = pool.Run(ctx, c.Workers, len(held), func(ctx context.Context, f int) error {
-		train := total.Clone()
-		if err := train.Subtract(held[f]); err != nil {
-			return err
-		}
-		if !(train.Weight > 0) {
+		if !(total.Weight-held[f].Weight > 0) {
 			return fmt.Errorf("%w: fold %d leaves no training rows", ErrFolds, f)
 		}
 		ps := c.Path
 		ps.Penalties = grid
-		path, err := lasso.FitMoments(ctx, train, response, predictors, &ps)
+		path, err := lasso.FitMomentsExcluding(ctx, total, held[f], response, predictors, &ps)
 		if err != nil {
 			return fmt.Errorf("cv: fold %d: %w", f, err)
 		}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 )
 
 // Data is the input of a fit. It refers to the caller's slices and never
@@ -129,21 +130,42 @@ func Fit(ctx context.Context, d Data, s *Settings) (*Path, error) {
 // Gaussian and Mode is ignored. The cost does not depend on the number of
 // rows behind the moments.
 func FitMoments(ctx context.Context, m *Moments, response int, predictors []int, s *Settings) (*Path, error) {
+	return fitMoments(ctx, m, m.Vars, response, predictors, s)
+}
+
+// FitMomentsExcluding fits like FitMoments on the rows behind total that
+// are not behind held (a cross-validation training set as the total minus
+// a held-out fold), without forming their moments: entries are
+// subtracted as the solver reads them. Both must share one shift.
+func FitMomentsExcluding(ctx context.Context, total, held *Moments, response int, predictors []int, s *Settings) (*Path, error) {
+	if held.Vars != total.Vars || len(held.Shift) != len(total.Shift) {
+		return nil, fmt.Errorf("%w: moments of %d and %d variables", ErrLength, total.Vars, held.Vars)
+	}
+	for j, x := range held.Shift {
+		if x != total.Shift[j] {
+			return nil, fmt.Errorf("%w: moments have different shifts at variable %d", ErrSettings, j)
+		}
+	}
+	return fitMoments(ctx, momentsDiff{total, held}, total.Vars, response, predictors, s)
+}
+
+func fitMoments(ctx context.Context, m momentSource, vars, response int, predictors []int, s *Settings) (*Path, error) {
 	if len(predictors) == 0 {
 		return nil, ErrNoPredictors
 	}
-	if response < 0 || response >= m.Vars {
-		return nil, fmt.Errorf("%w: response variable %d of %d", ErrIndex, response, m.Vars)
+	if response < 0 || response >= vars {
+		return nil, fmt.Errorf("%w: response variable %d of %d", ErrIndex, response, vars)
 	}
 	for _, j := range predictors {
-		if j < 0 || j >= m.Vars {
-			return nil, fmt.Errorf("%w: predictor variable %d of %d", ErrIndex, j, m.Vars)
+		if j < 0 || j >= vars {
+			return nil, fmt.Errorf("%w: predictor variable %d of %d", ErrIndex, j, vars)
 		}
 	}
-	if !(m.Weight > 0) {
+	w := m.weight()
+	if !(w > 0) {
 		return nil, ErrNoRows
 	}
-	r, err := resolve(s, int(m.Weight), len(predictors))
+	r, err := resolve(s, int(w), len(predictors))
 	if err != nil {
 		return nil, err
 	}
@@ -154,16 +176,14 @@ func FitMoments(ctx context.Context, m *Moments, response int, predictors []int,
 	if err != nil {
 		return nil, err
 	}
-	for j, x := range m.Cross {
-		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil, fmt.Errorf("%w: cross-product of variables %d and %d", ErrNotFinite, j/m.Vars, j%m.Vars)
-		}
+	if err := m.finite(append(slices.Clone(predictors), response)); err != nil {
+		return nil, err
 	}
 	e, err := newGramEngine(m, response, predictors, v, r)
 	if err != nil {
 		return nil, err
 	}
-	path, err := runPath(ctx, e, v, r, int(m.Weight))
+	path, err := runPath(ctx, e, v, r, int(w))
 	if path != nil {
 		path.Predictors = append([]int(nil), predictors...)
 	}

@@ -9,7 +9,7 @@ import "math"
 // update costs O(p) whatever the number of rows.
 type gramEngine struct {
 	r      resolved
-	m      *Moments
+	m      momentSource
 	resp   int
 	pred   []int
 	v      []float64
@@ -27,7 +27,7 @@ type gramEngine struct {
 	active []int
 }
 
-func newGramEngine(m *Moments, resp int, pred []int, v []float64, r resolved) (*gramEngine, error) {
+func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved) (*gramEngine, error) {
 	p := len(pred)
 	e := &gramEngine{
 		r: r, m: m, resp: resp, pred: pred, v: v,
@@ -42,7 +42,7 @@ func newGramEngine(m *Moments, resp int, pred []int, v []float64, r resolved) (*
 	}
 	e.vyy = e.moment(resp, resp)
 	if r.intercept {
-		e.ymean = m.Mean(resp)
+		e.ymean = m.mean(resp)
 		if isConstant(e.vyy, e.ymean) {
 			return nil, ErrConstantResponse
 		}
@@ -51,13 +51,13 @@ func newGramEngine(m *Moments, resp int, pred []int, v []float64, r resolved) (*
 	}
 	for j, k := range pred {
 		vj := e.moment(k, k)
-		if vj <= 0 || (r.intercept && isConstant(vj, m.Mean(k))) {
+		if vj <= 0 || (r.intercept && isConstant(vj, m.mean(k))) {
 			e.excl[j] = true
 			e.scale[j] = 1
 			continue
 		}
 		if r.intercept {
-			e.center[j] = m.Mean(k)
+			e.center[j] = m.mean(k)
 		}
 		e.scale[j] = 1
 		if r.standard {
@@ -75,9 +75,9 @@ func newGramEngine(m *Moments, resp int, pred []int, v []float64, r resolved) (*
 // variables j and k per unit weight.
 func (e *gramEngine) moment(j, k int) float64 {
 	if e.r.intercept {
-		return e.m.Covariance(j, k)
+		return e.m.covariance(j, k)
 	}
-	return e.m.SecondMoment(j, k)
+	return e.m.secondMoment(j, k)
 }
 
 // column returns column j of the standardised Gram, forming it on first use.
@@ -147,10 +147,10 @@ func (e *gramEngine) deviance() float64 {
 			d -= b * (e.c[j] + e.g[j])
 		}
 	}
-	return math.Max(d, 0) * e.m.Weight
+	return math.Max(d, 0) * e.m.weight()
 }
 
-func (e *gramEngine) nullDeviance() float64 { return e.vyy * e.m.Weight }
+func (e *gramEngine) nullDeviance() float64 { return e.vyy * e.m.weight() }
 func (e *gramEngine) excluded() []bool      { return e.excl }
 func (e *gramEngine) mode() Mode            { return GramMode }
-func (e *gramEngine) weight() float64       { return e.m.Weight }
+func (e *gramEngine) weight() float64       { return e.m.weight() }

@@ -232,3 +232,59 @@ func dot(a, b []float64) float64 {
 func isConstant(v, m float64) bool {
 	return v <= 0 || v <= 1e-26*m*m || math.IsNaN(v)
 }
+
+// momentSource is what the Gram engine reads: moments held in full, or
+// the difference of two (a training set as a total minus a held-out fold)
+// computed entry by entry when asked for.
+type momentSource interface {
+	weight() float64
+	mean(j int) float64
+	covariance(j, k int) float64
+	secondMoment(j, k int) float64
+	finite(vars []int) error
+}
+
+func (m *Moments) weight() float64               { return m.Weight }
+func (m *Moments) mean(j int) float64            { return m.Mean(j) }
+func (m *Moments) covariance(j, k int) float64   { return m.Covariance(j, k) }
+func (m *Moments) secondMoment(j, k int) float64 { return m.SecondMoment(j, k) }
+func (m *Moments) finite(vars []int) error       { return finiteBlock(m.Cross, nil, m.Vars, vars) }
+
+// momentsDiff is a − b without forming it.
+type momentsDiff struct{ a, b *Moments }
+
+func (d momentsDiff) weight() float64   { return d.a.Weight - d.b.Weight }
+func (d momentsDiff) sum(j int) float64 { return d.a.Sum[j] - d.b.Sum[j] }
+func (d momentsDiff) cross(j, k int) float64 {
+	q := d.a.Vars
+	return d.a.Cross[j*q+k] - d.b.Cross[j*q+k]
+}
+func (d momentsDiff) mean(j int) float64 { return d.a.Shift[j] + d.sum(j)/d.weight() }
+func (d momentsDiff) covariance(j, k int) float64 {
+	w := d.weight()
+	return (d.cross(j, k) - d.sum(j)*d.sum(k)/w) / w
+}
+func (d momentsDiff) secondMoment(j, k int) float64 {
+	w := d.weight()
+	sj, sk := d.a.Shift[j], d.a.Shift[k]
+	return (d.cross(j, k) + sj*d.sum(k) + sk*d.sum(j) + w*sj*sk) / w
+}
+func (d momentsDiff) finite(vars []int) error {
+	return finiteBlock(d.a.Cross, d.b.Cross, d.a.Vars, vars)
+}
+
+// finiteBlock checks the cross-products among vars for NaN and ±Inf.
+func finiteBlock(a, b []float64, q int, vars []int) error {
+	for _, j := range vars {
+		for _, k := range vars {
+			x := a[j*q+k]
+			if b != nil {
+				x -= b[j*q+k]
+			}
+			if math.IsNaN(x) || math.IsInf(x, 0) {
+				return fmt.Errorf("%w: cross-product of variables %d and %d", ErrNotFinite, j, k)
+			}
+		}
+	}
+	return nil
+}
