@@ -25,6 +25,10 @@ type gramEngine struct {
 	vyy    float64
 	tolAbs float64
 	active []int
+	// The gradient g is kept current only for the screened set; others
+	// are recomputed from the active columns when needed.
+	inSet []bool
+	set   []int
 }
 
 func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved) (*gramEngine, error) {
@@ -39,6 +43,7 @@ func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved
 		cols:   make([][]float64, p),
 		g:      make([]float64, p),
 		beta:   make([]float64, p),
+		inSet:  make([]bool, p),
 	}
 	e.vyy = e.moment(resp, resp)
 	if r.intercept {
@@ -113,8 +118,8 @@ func (e *gramEngine) sweep(lam float64, set []int) float64 {
 			e.beta[j] = nb
 			col := e.column(j)
 			g := e.g[:len(col)]
-			for i, x := range col {
-				g[i] -= x * d
+			for _, i := range e.set {
+				g[i] -= col[i] * d
 			}
 			maxd = math.Max(maxd, xv*d*d)
 		}
@@ -125,10 +130,53 @@ func (e *gramEngine) sweep(lam float64, set []int) float64 {
 func (e *gramEngine) coefficients() []float64 { return e.beta }
 
 func (e *gramEngine) solve(lam float64, set []int) (int, bool) {
+	for _, j := range set {
+		if !e.inSet[j] {
+			e.inSet[j] = true
+			e.g[j] = e.fresh(j)
+		}
+	}
+	e.set = set
 	return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
 }
 
-func (e *gramEngine) gradient(g []float64, _ []bool) { copy(g, e.g) }
+// fresh returns c_j − Σ_k G_jk β_k over the non-zero β_k, whose columns
+// of G are formed.
+func (e *gramEngine) fresh(j int) float64 {
+	g := e.c[j]
+	for k, b := range e.beta {
+		if b != 0 {
+			g -= e.cols[k][j] * b
+		}
+	}
+	return g
+}
+
+// gradient copies the kept gradient of the screened set and recomputes
+// the others, costing O(p·|active|).
+func (e *gramEngine) gradient(g []float64, skip []bool) {
+	var act []int
+	for k, b := range e.beta {
+		if b != 0 {
+			act = append(act, k)
+		}
+	}
+	for j := range g {
+		switch {
+		case e.inSet[j]:
+			g[j] = e.g[j]
+		case skip != nil && skip[j]:
+		case e.excl[j]:
+			g[j] = 0
+		default:
+			v := e.c[j]
+			for _, k := range act {
+				v -= e.cols[k][j] * e.beta[k]
+			}
+			g[j] = v
+		}
+	}
+}
 
 func (e *gramEngine) toOriginal(b []float64) float64 {
 	b0 := e.ymean
