@@ -518,19 +518,39 @@ func (r *run) fitNode(ctx context.Context, v int, node *Node) (nodeFit, error) {
 	for _, p := range res.Curve {
 		node.Curve = append(node.Curve, CurvePoint{Penalty: Number(p.Penalty), Mean: Number(p.Mean), SE: Number(p.SE), NonZero: p.NonZero})
 	}
-	// Coefficient paths of the terms that are ever non-zero (the others
-	// are zero throughout), so the result stays small for wide data.
-	ever := make([]bool, len(cols))
-	for k := range full.Len() {
+	// Coefficient paths of the terms that enter at or before the selected
+	// penalty, and of the ten largest at the path's end: the lines a
+	// reader can follow. Terms left out are zero up to the selected
+	// penalty and small after it; the result stays small for wide data.
+	keep := make([]bool, len(cols))
+	for k := 0; k <= min(res.Selected, full.Len()-1); k++ {
 		for _, t := range full.Coefficients[k].Index {
-			ever[t] = true
+			keep[t] = true
 		}
+	}
+	last := full.Coefficients[full.Len()-1]
+	order := slices.Clone(last.Index)
+	size := make(map[int]float64, len(order))
+	for i, t := range last.Index {
+		size[t] = math.Abs(last.Value[i] * r.sd(cols[t], rows))
+	}
+	slices.SortFunc(order, func(a, b int) int {
+		switch {
+		case size[a] > size[b]:
+			return -1
+		case size[a] < size[b]:
+			return 1
+		}
+		return a - b
+	})
+	for _, t := range order[:min(10, len(order))] {
+		keep[t] = true
 	}
 	node.Path = &CoefficientPath{Terms: []string{}, Values: [][]Number{}}
 	slot := make([]int, len(cols))
 	for t, c := range cols {
 		slot[t] = -1
-		if ever[t] {
+		if keep[t] {
 			slot[t] = len(node.Path.Terms)
 			node.Path.Terms = append(node.Path.Terms, r.d.termName(c))
 			node.Path.Values = append(node.Path.Values, make([]Number, full.Len()))
@@ -648,6 +668,20 @@ func (r *run) score(out cvOut, v int) Score {
 		}
 		return s
 	}
+}
+
+// sd returns the population standard deviation of design column c over
+// rows.
+func (r *run) sd(c int, rows []int) float64 {
+	x := r.d.cols[c]
+	var s1, s2, n float64
+	forEach(r.d.rows, rows, func(i int) {
+		s1 += x[i]
+		s2 += x[i] * x[i]
+		n++
+	})
+	m := s1 / n
+	return math.Sqrt(math.Max(s2/n-m*m, 0))
 }
 
 // variance returns the population variance of variable v over rows.

@@ -114,8 +114,8 @@ type CurvePoint struct {
 }
 
 // CoefficientPath holds Values[t][k], the coefficient of term t at
-// penalty k, for the terms that are non-zero at some penalty (the others
-// are zero along the whole path).
+// penalty k, for the terms that are non-zero at or before the selected
+// penalty and the ten largest (per standard deviation) at the path's end.
 type CoefficientPath struct {
 	Penalties []Number   `json:"penalties"`
 	Terms     []string   `json:"terms"`
