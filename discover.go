@@ -195,7 +195,7 @@ func (r *run) prepare(ctx context.Context) error {
 	shift := lasso.ColumnMeans(d.cols, nil, r.baseRows)
 	r.held = make([]*lasso.Moments, r.cfg.Folds)
 	err = pool.Run(ctx, r.cfg.Workers, r.cfg.Folds, func(ctx context.Context, k int) error {
-		_, rows := r.folds.Split(k, nil)
+		rows := r.folds.Held(k, nil)
 		m := lasso.NewMoments(shift)
 		if err := m.Accumulate(d.cols, nil, rows); err != nil {
 			return err
@@ -466,7 +466,7 @@ func (r *run) outOfFold(res *cv.Result, v int, rows []int, folds *cv.Folds) *fol
 	yv := r.d.cols[r.d.varCols[v][0]]
 	var fs foldScores
 	for f, path := range res.FoldPaths {
-		_, held := folds.Split(f, rows)
+		held := folds.Held(f, rows)
 		mu := make([]float64, len(held))
 		path.MeanTo(mu, min(res.Selected, path.Len()-1), r.d.cols, held)
 		fs.pred = append(fs.pred, mu...)

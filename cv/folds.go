@@ -157,11 +157,14 @@ func Given(ids []int) (*Folds, error) {
 // Split returns the training and held-out rows of fold f among rows (nil
 // means every row); rows outside every fold (id −1) are in neither.
 func (fs *Folds) Split(f int, rows []int) (train, held []int) {
+	held = fs.Held(f, rows)
+	n := len(fs.ID)
+	if rows != nil {
+		n = len(rows)
+	}
+	train = make([]int, 0, max(n-len(held), 0))
 	visit := func(i int) {
-		switch id := fs.ID[i]; {
-		case id == f:
-			held = append(held, i)
-		case id >= 0:
+		if id := fs.ID[i]; id >= 0 && id != f {
 			train = append(train, i)
 		}
 	}
@@ -175,4 +178,38 @@ func (fs *Folds) Split(f int, rows []int) (train, held []int) {
 		}
 	}
 	return train, held
+}
+
+// Held returns the held-out rows of fold f among rows (nil means every
+// row), without building the training list.
+func (fs *Folds) Held(f int, rows []int) []int {
+	count := 0
+	if rows == nil {
+		for _, id := range fs.ID {
+			if id == f {
+				count++
+			}
+		}
+	} else {
+		for _, i := range rows {
+			if fs.ID[i] == f {
+				count++
+			}
+		}
+	}
+	held := make([]int, 0, count)
+	if rows == nil {
+		for i, id := range fs.ID {
+			if id == f {
+				held = append(held, i)
+			}
+		}
+	} else {
+		for _, i := range rows {
+			if fs.ID[i] == f {
+				held = append(held, i)
+			}
+		}
+	}
+	return held
 }
