@@ -366,6 +366,10 @@ func runPath(ctx context.Context, e engine, v []float64, r resolved, rows int) (
 	if !(lmax > 0) || math.IsInf(lmax, 0) {
 		lmax = 1
 	}
+	// At exactly lmax the leading coordinate sits on the threshold, where
+	// rounding can leave it at ±1e-17; a hair above keeps the first fit
+	// empty.
+	lmax *= 1 + 1e-9
 	path.MaxPenalty = lmax
 	pens := r.penalties
 	if pens == nil {

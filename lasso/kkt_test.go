@@ -4,6 +4,7 @@ import (
 	"context"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"github.com/antecedent-lab/antecedent/lasso"
@@ -148,25 +149,43 @@ func TestKKT(t *testing.T) {
 		weighted bool
 		settings lasso.Settings
 		n, p     int
+		zeroOne  bool // make every other predictor 0/1 (the sparse path)
 	}{
-		{"gaussian gram", false, false, lasso.Settings{Mode: lasso.GramMode}, 200, 12},
-		{"gaussian residual", false, false, lasso.Settings{Mode: lasso.ResidualMode}, 200, 12},
-		{"gaussian weighted", false, true, lasso.Settings{}, 150, 10},
-		{"gaussian weighted residual", false, true, lasso.Settings{Mode: lasso.ResidualMode}, 150, 10},
-		{"gaussian mixing", false, false, lasso.Settings{Mixing: 0.3}, 120, 15},
-		{"gaussian unpenalised", false, true, lasso.Settings{PenaltyScale: unpen(10)}, 100, 10},
-		{"gaussian no intercept", false, false, lasso.Settings{NoIntercept: true}, 100, 8},
-		{"gaussian raw scale", false, false, lasso.Settings{NoStandardize: true, Mode: lasso.ResidualMode}, 100, 8},
-		{"gaussian p > n", false, false, lasso.Settings{}, 30, 60},
-		{"binomial", true, false, lasso.Settings{Family: lasso.Binomial{}}, 300, 10},
-		{"binomial weighted", true, true, lasso.Settings{Family: lasso.Binomial{}}, 300, 10},
-		{"binomial mixing unpenalised", true, true, lasso.Settings{Family: lasso.Binomial{}, Mixing: 0.5, PenaltyScale: unpen(8)}, 250, 8},
-		{"binomial no intercept", true, false, lasso.Settings{Family: lasso.Binomial{}, NoIntercept: true}, 200, 6},
-		{"binomial p > n", true, false, lasso.Settings{Family: lasso.Binomial{}}, 40, 60},
+		{"gaussian 0/1 predictors", false, true, lasso.Settings{Mode: lasso.ResidualMode}, 200, 10, true},
+		{"binomial 0/1 predictors", true, false, lasso.Settings{Family: lasso.Binomial{}}, 300, 10, true},
+		{"binomial 0/1 weighted mixing", true, true, lasso.Settings{Family: lasso.Binomial{}, Mixing: 0.6}, 300, 8, true},
+		{"binomial 0/1 no intercept", true, false, lasso.Settings{Family: lasso.Binomial{}, NoIntercept: true}, 250, 6, true},
+		{"gaussian gram", false, false, lasso.Settings{Mode: lasso.GramMode}, 200, 12, false},
+		{"gaussian residual", false, false, lasso.Settings{Mode: lasso.ResidualMode}, 200, 12, false},
+		{"gaussian weighted", false, true, lasso.Settings{}, 150, 10, false},
+		{"gaussian weighted residual", false, true, lasso.Settings{Mode: lasso.ResidualMode}, 150, 10, false},
+		{"gaussian mixing", false, false, lasso.Settings{Mixing: 0.3}, 120, 15, false},
+		{"gaussian unpenalised", false, true, lasso.Settings{PenaltyScale: unpen(10)}, 100, 10, false},
+		{"gaussian no intercept", false, false, lasso.Settings{NoIntercept: true}, 100, 8, false},
+		{"gaussian raw scale", false, false, lasso.Settings{NoStandardize: true, Mode: lasso.ResidualMode}, 100, 8, false},
+		{"gaussian p > n", false, false, lasso.Settings{}, 30, 60, false},
+		{"binomial", true, false, lasso.Settings{Family: lasso.Binomial{}}, 300, 10, false},
+		{"binomial weighted", true, true, lasso.Settings{Family: lasso.Binomial{}}, 300, 10, false},
+		{"binomial mixing unpenalised", true, true, lasso.Settings{Family: lasso.Binomial{}, Mixing: 0.5, PenaltyScale: unpen(8)}, 250, 8, false},
+		{"binomial no intercept", true, false, lasso.Settings{Family: lasso.Binomial{}, NoIntercept: true}, 200, 6, false},
+		{"binomial p > n", true, false, lasso.Settings{Family: lasso.Binomial{}}, 40, 60, false},
 	}
 	for seed, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			pr := randomProblem(uint64(seed+1), c.n, c.p, c.binomial, c.weighted)
+			if c.zeroOne {
+				for j := 0; j < len(pr.x); j += 2 {
+					med := slices.Clone(pr.x[j])
+					slices.Sort(med)
+					for i, v := range pr.x[j] {
+						if v > med[len(med)/3] {
+							pr.x[j][i] = 1
+						} else {
+							pr.x[j][i] = 0
+						}
+					}
+				}
+			}
 			s := c.settings
 			s.Tolerance = 1e-22
 			s.NumPenalties = 30
@@ -202,6 +221,12 @@ func TestKKT(t *testing.T) {
 // path, with weights and a row subset.
 func TestModesAgree(t *testing.T) {
 	pr := randomProblem(7, 300, 9, false, true)
+	for i, v := range pr.x[2] {
+		pr.x[2][i] = float64(int(v*7) % 2 & 1) // a 0/1 predictor takes the sparse path
+		if pr.x[2][i] < 0 {
+			pr.x[2][i] = 0
+		}
+	}
 	rows := make([]int, 0, 200)
 	for i := 0; i < 300; i += 3 {
 		rows = append(rows, i, i+1)

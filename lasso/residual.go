@@ -25,12 +25,19 @@ type residualEngine struct {
 	b0   float64   // intercept in standardised coordinates
 	eta  []float64 // linear predictor
 	h    []float64 // ω times working weight
-	hr   []float64 // h times the working residual
-	z    []float64 // working response (non-Gaussian)
-	xv   []float64 // Σ h x̃²
-	hx   []float64 // Σ h x̃
-	sumH float64
-	sumR float64 // Σ hr
+	// The weighted working residual h·(z − eta) is held as q + alpha·h:
+	// centring and intercept moves change only the scalar alpha, so an
+	// update of a 0/1 predictor touches only its ones.
+	q     []float64
+	alpha float64
+	z     []float64 // working response (non-Gaussian)
+	xv    []float64 // Σ h x̃²
+	hxRaw []float64 // Σ h x (uncentred, unscaled)
+	sumH  float64
+	sumQ  float64 // Σ q
+	// ones lists, for a 0/1 predictor, the row positions where it is 1.
+	ones  [][]int32
+	isBin []bool
 
 	nullDev float64
 	tolAbs  float64
@@ -60,10 +67,12 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		beta:   make([]float64, p),
 		eta:    make([]float64, n),
 		h:      make([]float64, n),
-		hr:     make([]float64, n),
+		q:      make([]float64, n),
 		xv:     make([]float64, p),
-		hx:     make([]float64, p),
+		hxRaw:  make([]float64, p),
 		old:    make([]float64, p),
+		ones:   make([][]int32, p),
+		isBin:  make([]bool, p),
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -94,9 +103,14 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			}
 		}
 		var ss float64
+		bin := true
 		for t, w := range e.omega {
-			dx := c[e.row(t)] - m
+			x := c[e.row(t)]
+			dx := x - m
 			ss += w * dx * dx
+			if x != 0 && x != 1 {
+				bin = false
+			}
 		}
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
 			e.excl[j] = true
@@ -107,6 +121,14 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		e.scale[j] = 1
 		if r.standard {
 			e.scale[j] = math.Sqrt(ss)
+		}
+		if bin && n < math.MaxInt32 {
+			e.isBin[j] = true
+			for t := range n {
+				if c[e.row(t)] == 1 {
+					e.ones[j] = append(e.ones[j], int32(t))
+				}
+			}
 		}
 	}
 	if r.intercept {
@@ -128,7 +150,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	if r.gaussian {
 		for j := range e.cols {
 			if !e.excl[j] {
-				e.xv[j], e.hx[j] = e.weightedSquare(j)
+				e.xv[j], e.hxRaw[j] = e.weightedSquare(j)
 			}
 		}
 	}
@@ -154,12 +176,12 @@ func (e *residualEngine) working() {
 	if e.fresh {
 		return
 	}
-	e.sumH, e.sumR = 0, 0
+	e.sumH, e.sumQ, e.alpha = 0, 0, 0
 	if e.r.gaussian {
 		copy(e.h, e.omega)
 		for t, y := range e.y {
-			e.hr[t] = e.h[t] * (y - e.eta[t])
-			e.sumR += e.hr[t]
+			e.q[t] = e.h[t] * (y - e.eta[t])
+			e.sumQ += e.q[t]
 		}
 		e.sumH = 1
 	} else {
@@ -200,10 +222,10 @@ func (e *residualEngine) working() {
 				}
 			}
 			e.h[t] = w * hw
-			e.hr[t] = e.h[t] * rr
+			e.q[t] = e.h[t] * rr
 			e.z[t] = eta + rr
 			e.sumH += e.h[t]
-			e.sumR += e.hr[t]
+			e.sumQ += e.q[t]
 		}
 		if wantDev {
 			e.dev, e.devOK = dev*e.total, true
@@ -212,56 +234,103 @@ func (e *residualEngine) working() {
 	e.fresh = true
 }
 
-// weightedSquare returns Σ h x̃_j² and Σ h x̃_j.
+// weightedSquare returns Σ h x̃_j² and Σ h x_j.
 func (e *residualEngine) weightedSquare(j int) (float64, float64) {
 	c, m, s := e.cols[j], e.center[j], e.scale[j]
 	h := e.h[:e.n]
-	var sq, sum float64
+	if e.isBin[j] {
+		var s1 float64
+		for _, t := range e.ones[j] {
+			s1 += h[t]
+		}
+		// Σ h (x−m)² = (1−2m)·Σ_ones h + m²·Σ h for x in {0, 1}.
+		return ((1-2*m)*s1 + m*m*e.sumH) / (s * s), s1
+	}
+	var sq, raw float64
 	if e.rows == nil {
 		c = c[:e.n]
 		for t, x := range c {
-			hd := h[t] * (x - m)
-			sum += hd
-			sq += hd * (x - m)
+			hx := h[t] * x
+			raw += hx
+			sq += hx * x
 		}
 	} else {
 		for t, i := range e.rows {
-			hd := h[t] * (c[i] - m)
-			sum += hd
-			sq += hd * (c[i] - m)
+			x := c[i]
+			hx := h[t] * x
+			raw += hx
+			sq += hx * x
 		}
 	}
-	return sq / (s * s), sum / s
+	// Σ h (x−m)² = Σ h x² − 2m Σ h x + m² Σ h.
+	return (sq - 2*m*raw + m*m*e.sumH) / (s * s), raw
 }
 
-// grad returns Σ h x̃_j res = (Σ x_j·hr − m_j·Σ hr)/s_j.
+// dotQ returns Σ x_j·q.
+func (e *residualEngine) dotQ(j int) float64 {
+	if e.isBin[j] {
+		q := e.q[:e.n]
+		var s0, s1 float64
+		ones := e.ones[j]
+		k := 0
+		for ; k+2 <= len(ones); k += 2 {
+			s0 += q[ones[k]]
+			s1 += q[ones[k+1]]
+		}
+		if k < len(ones) {
+			s0 += q[ones[k]]
+		}
+		return s0 + s1
+	}
+	if e.rows == nil {
+		return dot(e.cols[j][:e.n], e.q)
+	}
+	return dotIndexed(e.cols[j], e.rows, e.q)
+}
+
+// grad returns Σ h x̃_j r = (Σ x·(q + αh) − m·Σ(q + αh))/s, using Σ h x
+// from the last weightedSquare of j.
 func (e *residualEngine) grad(j int) float64 {
-	c := e.cols[j]
-	var sum float64
-	if e.rows == nil {
-		sum = dot(c[:e.n], e.hr)
-	} else {
-		sum = dotIndexed(c, e.rows, e.hr)
-	}
-	return (sum - e.center[j]*e.sumR) / e.scale[j]
+	sumR := e.sumQ + e.alpha*e.sumH
+	return (e.dotQ(j) + e.alpha*e.hxRaw[j] - e.center[j]*sumR) / e.scale[j]
 }
 
-// shift subtracts d·x̃_j from the working residuals.
+// flush folds alpha into q, so that gradients need no Σ h x.
+func (e *residualEngine) flush() {
+	if e.alpha == 0 {
+		return
+	}
+	a := e.alpha
+	for t, h := range e.h {
+		e.q[t] += a * h
+	}
+	e.sumQ += a * e.sumH
+	e.alpha = 0
+}
+
+// shift subtracts d·x̃_j from the working residuals: q −= (d/s)·h·x and
+// alpha += (d/s)·m.
 func (e *residualEngine) shift(j int, d float64) {
-	c, m := e.cols[j], e.center[j]
 	f := d / e.scale[j]
-	hr, h := e.hr[:e.n], e.h[:e.n]
-	if e.rows == nil {
-		c = c[:e.n]
-		for t, x := range c {
-			hr[t] -= f * h[t] * (x - m)
+	q, h := e.q[:e.n], e.h[:e.n]
+	switch {
+	case e.isBin[j]:
+		for _, t := range e.ones[j] {
+			q[t] -= f * h[t]
 		}
-	} else {
+	case e.rows == nil:
+		c := e.cols[j][:e.n]
+		for t, x := range c {
+			q[t] -= f * h[t] * x
+		}
+	default:
+		c := e.cols[j]
 		for t, i := range e.rows {
-			hr[t] -= f * h[t] * (c[i] - m)
+			q[t] -= f * h[t] * c[i]
 		}
 	}
-	e.sumR -= d * e.hx[j]
+	e.alpha += f * e.center[j]
+	e.sumQ -= f * e.hxRaw[j]
 }
 
 // dotIndexed returns Σ_t c[rows[t]]·v[t].
@@ -297,19 +366,12 @@ func (e *residualEngine) sweep(lam float64, set []int) float64 {
 		}
 	}
 	if e.r.intercept && !e.r.gaussian && e.sumH > 0 {
-		var s float64
-		for _, v := range e.hr {
-			s += v
-		}
-		d := s / e.sumH
+		d := (e.sumQ + e.alpha*e.sumH) / e.sumH
 		if d != 0 {
 			e.b0 += d
-			for t, h := range e.h {
-				e.hr[t] -= d * h
-			}
+			e.alpha -= d
 			maxd = math.Max(maxd, e.sumH*d*d)
 		}
-		e.sumR = s - d*e.sumH
 	}
 	return maxd
 }
@@ -326,7 +388,7 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		e.working()
 		for _, j := range set {
 			if !e.excl[j] {
-				e.xv[j], e.hx[j] = e.weightedSquare(j)
+				e.xv[j], e.hxRaw[j] = e.weightedSquare(j)
 			}
 		}
 		copy(e.old, e.beta)
@@ -337,7 +399,7 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		sweeps += sw
 		var step float64
 		for t := range e.eta {
-			eta := e.z[t] - e.hr[t]/e.h[t]
+			eta := e.z[t] - e.q[t]/e.h[t] - e.alpha
 			step = math.Max(step, math.Abs(eta-e.etaOld[t]))
 			e.eta[t] = eta
 		}
@@ -432,6 +494,7 @@ func (e *residualEngine) gradient(g []float64, skip []bool) {
 	e.wantDev = true
 	e.working()
 	e.wantDev = false
+	e.flush()
 	for j := range g {
 		if skip != nil && skip[j] {
 			continue
@@ -440,7 +503,7 @@ func (e *residualEngine) gradient(g []float64, skip []bool) {
 			g[j] = 0
 			continue
 		}
-		g[j] = e.grad(j)
+		g[j] = (e.dotQ(j) - e.center[j]*e.sumQ) / e.scale[j]
 	}
 }
 
@@ -458,7 +521,8 @@ func (e *residualEngine) deviance() float64 {
 	if e.r.gaussian {
 		for t, w := range e.omega {
 			if w > 0 {
-				d += e.hr[t] * e.hr[t] / w
+				r := e.q[t] + e.alpha*e.h[t]
+				d += r * r / w
 			}
 		}
 		return d * e.total
