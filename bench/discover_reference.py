@@ -152,6 +152,14 @@ def tuned_binary(data, node, folds, tol, jobs):
     return [node["candidates"][j] for j in np.nonzero(fit.coef_[0])[0]]
 
 
+def vm_hwm():
+    with open("/proc/self/status") as f:
+        for line in f:
+            if line.startswith("VmHWM:"):
+                return int(line.split()[1])
+    return -1
+
+
 def main():
     spec = json.load(open(sys.argv[1]))
     pipeline = sys.argv[2]
@@ -175,7 +183,9 @@ def main():
                 grams = FoldGrams(data, folds)
             parents[nd["index"]] = tuned_gaussian(grams, nd, spec["tol"])
     seconds = time.perf_counter() - start
-    rss = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss + resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
+    # VmHWM: getrusage's maximum survives fork and exec, so it would count
+    # the Go parent's memory; worker processes add their own peaks.
+    rss = vm_hwm() + resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
     json.dump({"seconds": seconds, "load_seconds": load, "peak_kib": rss, "nodes": len(nodes),
                "parents": {str(k): [int(x) for x in v] for k, v in parents.items()},
                "tool": "scikit-learn %s, numpy %s" % (sklearn.__version__, np.__version__)}, sys.stdout)

@@ -85,6 +85,7 @@ func TestGaussianAgainstReference(t *testing.T) {
 			if worst > 1e-6 {
 				t.Errorf("%v λ=%g mixing=%g: max abs difference %g from %s", mode, f.Lambda, f.Mixing, worst, ref.Tool)
 			}
+			t.Logf("%v λ=%.4g mixing=%g: max abs difference %.2g", mode, f.Lambda, f.Mixing, worst)
 		}
 	}
 }

@@ -29,7 +29,6 @@ import (
 	"runtime"
 	"slices"
 	"strings"
-	"syscall"
 	"time"
 
 	"github.com/antecedent-lab/antecedent"
@@ -163,8 +162,6 @@ func runChild(path string, n, p int, orderPath, out string) error {
 		return err
 	}
 	secs := time.Since(start).Seconds()
-	var ru syscall.Rusage
-	syscall.Getrusage(syscall.RUSAGE_SELF, &ru)
 	rf, err := os.Create(out)
 	if err != nil {
 		return err
@@ -173,7 +170,25 @@ func runChild(path string, n, p int, orderPath, out string) error {
 		return err
 	}
 	rf.Close()
-	return json.NewEncoder(os.Stdout).Encode(childReport{Seconds: secs, PeakKiB: ru.Maxrss})
+	return json.NewEncoder(os.Stdout).Encode(childReport{Seconds: secs, PeakKiB: peakKiB()})
+}
+
+// peakKiB returns this process's peak resident set (VmHWM). getrusage's
+// maximum is kept across fork and exec, so in a child it would include
+// the parent's memory at the fork.
+func peakKiB() int64 {
+	b, err := os.ReadFile("/proc/self/status")
+	if err != nil {
+		return -1
+	}
+	for _, line := range strings.Split(string(b), "\n") {
+		if rest, ok := strings.CutPrefix(line, "VmHWM:"); ok {
+			var kib int64
+			fmt.Sscan(strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(rest), "kB")), &kib)
+			return kib
+		}
+	}
+	return -1
 }
 
 func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool) (string, error) {
