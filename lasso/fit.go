@@ -482,6 +482,16 @@ func descend(s sweeper, lam float64, set []int, tol float64, limit int, active [
 	return sweeps, false
 }
 
+// unstandardize writes the original-scale coefficients beta_j/scale_j into
+// b and returns the original-scale intercept b0 − Σ b_j·center_j.
+func unstandardize(b, beta, scale, center []float64, b0 float64) float64 {
+	for j, x := range beta {
+		b[j] = x / scale[j]
+		b0 -= b[j] * center[j]
+	}
+	return b0
+}
+
 // soft returns the soft-thresholding S(u, t) = sign(u)·max(|u|−t, 0).
 func soft(u, t float64) float64 {
 	switch {

@@ -179,12 +179,7 @@ func (e *gramEngine) gradient(g []float64, skip []bool) {
 }
 
 func (e *gramEngine) toOriginal(b []float64) float64 {
-	b0 := e.ymean
-	for j, x := range e.beta {
-		b[j] = x / e.scale[j]
-		b0 -= b[j] * e.center[j]
-	}
-	return b0
+	return unstandardize(b, e.beta, e.scale, e.center, e.ymean)
 }
 
 // deviance returns W·(vyy − 2c'β + β'Gβ) = W·(vyy − Σ β_j (c_j + g_j)).

@@ -508,12 +508,7 @@ func (e *residualEngine) gradient(g []float64, skip []bool) {
 }
 
 func (e *residualEngine) toOriginal(b []float64) float64 {
-	b0 := e.b0
-	for j, x := range e.beta {
-		b[j] = x / e.scale[j]
-		b0 -= b[j] * e.center[j]
-	}
-	return b0
+	return unstandardize(b, e.beta, e.scale, e.center, e.b0)
 }
 
 func (e *residualEngine) deviance() float64 {
