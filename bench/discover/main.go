@@ -257,6 +257,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool) 
 		}
 		var py struct {
 			Seconds float64          `json:"seconds"`
+			Fixed   float64          `json:"fixed_seconds"`
 			PeakKiB float64          `json:"peak_kib"`
 			Nodes   int              `json:"nodes"`
 			Parents map[string][]int `json:"parents"`
@@ -264,7 +265,9 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool) 
 		if err := json.Unmarshal(outb, &py); err != nil {
 			return "", err
 		}
-		times[k] = py.Seconds * float64(fitted) / float64(py.Nodes)
+		// Shared work is counted once; per-node work scales with the
+		// number of nodes when only some were run.
+		times[k] = py.Fixed + (py.Seconds-py.Fixed)*float64(fitted)/float64(py.Nodes)
 		peaks[k] = py.PeakKiB / 1024
 		agree[k] = agreement(res, py.Parents)
 	}
