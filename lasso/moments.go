@@ -3,6 +3,9 @@ package lasso
 import (
 	"fmt"
 	"math"
+
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
 )
 
 // Moments holds weighted sums of q variables taken about a fixed shift:
@@ -108,7 +111,7 @@ func (m *Moments) Accumulate(cols [][]float64, weights []float64, rows []int) er
 	// blk holds a block of shifted values, column-major; wblk the same
 	// values times the weights.
 	blk := make([]float64, q*momentBlock)
-	wblk := make([]float64, q*momentBlock)
+	rootW := make([]float64, momentBlock)
 	wts := make([]float64, momentBlock)
 	for start := 0; start < total; start += momentBlock {
 		b := min(momentBlock, total-start)
@@ -122,11 +125,11 @@ func (m *Moments) Accumulate(cols [][]float64, weights []float64, rows []int) er
 				w = weights[i]
 			}
 			wts[t] = w
+			rootW[t] = math.Sqrt(w)
 			m.Weight += w
 		}
 		for j, c := range cols {
 			x := blk[j*momentBlock : j*momentBlock+b]
-			wx := wblk[j*momentBlock : j*momentBlock+b]
 			sh := m.Shift[j]
 			var s float64
 			for t := range x {
@@ -135,24 +138,23 @@ func (m *Moments) Accumulate(cols [][]float64, weights []float64, rows []int) er
 					i = rows[i]
 				}
 				v := c[i] - sh
-				x[t] = v
-				wx[t] = v * wts[t]
-				s += wx[t]
+				s += v * wts[t]
+				x[t] = v * rootW[t]
 			}
 			m.Sum[j] += s
 		}
-		for j := 0; j < q; j++ {
-			wx := wblk[j*momentBlock : j*momentBlock+b]
-			row := m.Cross[j*q:]
-			for k := 0; k <= j; k++ {
-				row[k] += dot(wx, blk[k*momentBlock:k*momentBlock+b])
-			}
-		}
+		// Cross += (√w∘X_blk)ᵀ(√w∘X_blk) for this block of rows: the block
+		// is stored one column after another, which is the q × b
+		// row-major matrix Xᵀ, so one symmetric rank-b update (gonum's
+		// Dsyrk) forms the upper triangle.
+		a := blas64.General{Rows: q, Cols: b, Stride: momentBlock, Data: blk}
+		c := blas64.Symmetric{Uplo: blas.Upper, N: q, Stride: q, Data: m.Cross}
+		blas64.Syrk(blas.NoTrans, 1, a, 1, c)
 	}
-	// Mirror the lower triangle.
+	// Mirror the upper triangle.
 	for j := 0; j < q; j++ {
 		for k := 0; k < j; k++ {
-			m.Cross[k*q+j] = m.Cross[j*q+k]
+			m.Cross[j*q+k] = m.Cross[k*q+j]
 		}
 	}
 	return nil
