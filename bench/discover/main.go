@@ -27,6 +27,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"runtime"
+	"runtime/pprof"
 	"slices"
 	"strings"
 	"time"
@@ -78,9 +79,10 @@ func main() {
 	pyNodes := flag.Int("python-nodes", 0, "run scikit-learn on this many nodes (evenly spaced) and scale its time up; 0 = all")
 	skipPy := flag.Bool("skip-python", false, "time antecedent only")
 	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
+	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of antecedent's fitting in the last case run to this file")
 	flag.Parse()
 	if *child {
-		if err := runChild(*dataPath, *n, *p, *orderPath, *outPath); err != nil {
+		if err := runChild(*dataPath, *n, *p, *orderPath, *outPath, *cpuProfile); err != nil {
 			log.Fatal(err)
 		}
 		return
@@ -99,7 +101,7 @@ func main() {
 		if !selected(c.name, *only) {
 			continue
 		}
-		row, err := runCase(c, dir, script, *python, *pyNodes, *skipPy)
+		row, err := runCase(c, dir, script, *python, *pyNodes, *skipPy, *cpuProfile)
 		if err != nil {
 			log.Fatalf("%s: %v", c.name, err)
 		}
@@ -121,7 +123,7 @@ type childReport struct {
 	PeakKiB int64   `json:"peak_kib"`
 }
 
-func runChild(path string, n, p int, orderPath, out string) error {
+func runChild(path string, n, p int, orderPath, out, profile string) error {
 	f, err := os.Open(path)
 	if err != nil {
 		return err
@@ -156,12 +158,25 @@ func runChild(path string, n, p int, orderPath, out string) error {
 	if err != nil {
 		return err
 	}
+	if profile != "" {
+		pf, err := os.Create(profile)
+		if err != nil {
+			return err
+		}
+		defer pf.Close()
+		if err := pprof.StartCPUProfile(pf); err != nil {
+			return err
+		}
+	}
 	start := time.Now()
 	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 1, Folds: folds})
 	if err != nil {
 		return err
 	}
 	secs := time.Since(start).Seconds()
+	if profile != "" {
+		pprof.StopCPUProfile()
+	}
 	rf, err := os.Create(out)
 	if err != nil {
 		return err
@@ -191,7 +206,7 @@ func peakKiB() int64 {
 	return -1
 }
 
-func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool) (string, error) {
+func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, profile string) (string, error) {
 	m, o, err := simulate.Random(simulate.RandomSettings{Variables: c.p, Tiers: 5, BinaryShare: c.binary}, uint64(c.n+c.p))
 	if err != nil {
 		return "", err
@@ -217,7 +232,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool) 
 	os.WriteFile(orderPath, ob.Bytes(), 0o644)
 	resPath := filepath.Join(dir, c.name+".json")
 	self, _ := os.Executable()
-	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath).Output()
+	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath, "-cpuprofile", profile).Output()
 	if err != nil {
 		return "", fmt.Errorf("antecedent child: %v", err)
 	}
