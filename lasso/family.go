@@ -135,12 +135,10 @@ func (Binomial) Deviance(y, mu float64) float64 {
 // binomialDevianceEta returns the binomial unit deviance at linear
 // predictor eta without forming mu, stable for large |eta|.
 func binomialDevianceEta(y, eta float64) float64 {
-	// ½·dev = log(1+e^eta) − y·eta
-	var softplus float64
-	if eta > 0 {
-		softplus = eta + math.Log1p(math.Exp(-eta))
-	} else {
-		softplus = math.Log1p(math.Exp(eta))
+	// ½·dev = log(1+e^η) − y·η = log1p(e^−|η|) + max(η, 0) − y·η.
+	pos := eta
+	if pos < 0 {
+		pos = 0
 	}
-	return 2 * (softplus - y*eta)
+	return 2 * (log1pUnit(expNonPositive(-math.Abs(eta))) + pos - y*eta)
 }

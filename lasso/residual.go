@@ -30,7 +30,10 @@ type residualEngine struct {
 	// update of a 0/1 predictor touches only its ones.
 	q     []float64
 	alpha float64
-	z     []float64 // working response (non-Gaussian)
+	// qw holds q as formed by working (non-Gaussian): the working
+	// response is z = η + qw/h, so after a descent η = z − (q + αh)/h
+	// = η_old + (qw − q)/h − α.
+	qw    []float64
 	xv    []float64 // Σ h x̃²
 	hxRaw []float64 // Σ h x (uncentred, unscaled)
 	sumH  float64
@@ -143,7 +146,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	e.nullDev *= e.total
 	e.tolAbs = r.tol * e.nullDev / e.total
 	if !r.gaussian {
-		e.z = make([]float64, n)
+		e.qw = make([]float64, n)
 		e.etaOld = make([]float64, n)
 	}
 	e.working()
@@ -184,46 +187,22 @@ func (e *residualEngine) working() {
 			e.sumQ += e.q[t]
 		}
 		e.sumH = 1
+	} else if _, ok := e.r.fam.(Binomial); ok {
+		e.workingBinomial(e.wantDev && !e.devOK)
 	} else {
 		fam := e.r.fam
-		_, binomial := fam.(Binomial)
 		var dev float64
 		wantDev := e.wantDev && !e.devOK
 		for t, y := range e.y {
 			eta := e.eta[t]
 			w := e.omega[t]
-			var hw, rr float64
-			if binomial {
-				// One exponential serves the weight and the residual.
-				ex := math.Exp(-math.Abs(eta))
-				mu := 1 / (1 + ex)
-				if eta < 0 {
-					mu = ex / (1 + ex)
-				}
-				m := mu
-				if m < ProbabilityBound {
-					m = ProbabilityBound
-				} else if m > 1-ProbabilityBound {
-					m = 1 - ProbabilityBound
-				}
-				hw = m * (1 - m)
-				rr = (y - mu) / hw
-				if wantDev {
-					pos := eta
-					if pos < 0 {
-						pos = 0
-					}
-					dev += w * 2 * (math.Log1p(ex) + pos - y*eta)
-				}
-			} else {
-				hw, rr = fam.Working(y, eta)
-				if wantDev {
-					dev += w * e.unitDeviance(y, eta)
-				}
+			hw, rr := fam.Working(y, eta)
+			if wantDev {
+				dev += w * e.unitDeviance(y, eta)
 			}
 			e.h[t] = w * hw
 			e.q[t] = e.h[t] * rr
-			e.z[t] = eta + rr
+			e.qw[t] = e.q[t]
 			e.sumH += e.h[t]
 			e.sumQ += e.q[t]
 		}
@@ -232,6 +211,44 @@ func (e *residualEngine) working() {
 		}
 	}
 	e.fresh = true
+}
+
+// workingBinomial is working for the binomial family, where one
+// exponential per row gives the mean, the weight and (with one logarithm)
+// the deviance. With d = 1/(1+e^−|η|), the weight μ(1−μ) equals e^−|η|·d²
+// without cancellation; it is bounded below as Binomial.Working bounds μ.
+// The weighted residual h·(z−η) is ω·(y−μ) exactly.
+func (e *residualEngine) workingBinomial(wantDev bool) {
+	const hMin = ProbabilityBound * (1 - ProbabilityBound)
+	n := e.n
+	ys, etas, omega := e.y[:n], e.eta[:n], e.omega[:n]
+	h, q, qw := e.h[:n], e.q[:n], e.qw[:n]
+	// qw first holds e^−|η|; three simple loops run faster than one
+	// long one, whose chain of dependent operations stalls each row.
+	expNegAbs(qw, etas)
+	if wantDev {
+		// ½·deviance = log(1+e^η) − y·η = log1p(e^−|η|) + max(η, 0) − y·η.
+		e.dev, e.devOK = 2*halfDevianceSum(qw, etas, ys, omega)*e.total, true
+	}
+	var sumH, sumQ float64
+	for t, y := range ys {
+		eta, ex := etas[t], qw[t]
+		// neg is all ones for negative eta: the selection is branch-free,
+		// as the sign of eta is unpredictable.
+		neg := uint64(int64(math.Float64bits(eta)) >> 63)
+		d := 1 / (1 + ex)
+		mu := math.Float64frombits(math.Float64bits(ex*d)&neg | math.Float64bits(d)&^neg)
+		hw := max(ex*d*d, hMin)
+		w := omega[t]
+		ht := w * hw
+		qt := w * (y - mu)
+		h[t] = ht
+		q[t] = qt
+		qw[t] = qt
+		sumH += ht
+		sumQ += qt
+	}
+	e.sumH, e.sumQ = sumH, sumQ
 }
 
 // weightedSquare returns Σ h x̃_j² and Σ h x_j.
@@ -384,25 +401,20 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
 	}
 	sweeps := 0
+	formed := false // working weights and squares are current
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
-		e.working()
-		for _, j := range set {
-			if !e.excl[j] {
-				e.xv[j], e.hxRaw[j] = e.weightedSquare(j)
-			}
+		if !formed {
+			e.working()
+			e.squares(set)
 		}
+		formed = false
 		copy(e.old, e.beta)
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
 		oldDev, oldDevOK := e.dev, e.devOK
 		sw, ok := descend(e, lam, set, e.tolAbs, e.r.maxSweeps-sweeps, e.active)
 		sweeps += sw
-		var step float64
-		for t := range e.eta {
-			eta := e.z[t] - e.q[t]/e.h[t] - e.alpha
-			step = math.Max(step, math.Abs(eta-e.etaOld[t]))
-			e.eta[t] = eta
-		}
+		step := e.updateEta()
 		e.fresh, e.devOK = false, false
 		if !ok {
 			return sweeps, false
@@ -447,8 +459,73 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		if d < e.tolAbs {
 			return sweeps, true
 		}
+		// The step moved the fit. Form the weights at the new point
+		// (with the deviance, which the path records next) and stop if a
+		// sweep from there would move no coordinate beyond tolerance:
+		// from a warm start one Newton step usually lands there, and the
+		// next reweighting would only confirm it.
+		e.wantDev = true
+		e.working()
+		e.wantDev = false
+		e.squares(set)
+		formed = true
+		if e.settled(lam, set) {
+			return sweeps, true
+		}
 	}
 	return sweeps, false
+}
+
+// squares forms Σ h x̃² and Σ h x for the predictors of set.
+func (e *residualEngine) squares(set []int) {
+	for _, j := range set {
+		if !e.excl[j] {
+			e.xv[j], e.hxRaw[j] = e.weightedSquare(j)
+		}
+	}
+}
+
+// settled reports whether a coordinate-descent sweep over set (and the
+// intercept) at the current working weights would change no coordinate by
+// more than the tolerance, the test that ends descend.
+func (e *residualEngine) settled(lam float64, set []int) bool {
+	if e.r.intercept && e.sumH > 0 {
+		d := (e.sumQ + e.alpha*e.sumH) / e.sumH
+		if e.sumH*d*d >= e.tolAbs {
+			return false
+		}
+	}
+	for _, j := range set {
+		xv := e.xv[j]
+		if xv <= 0 {
+			continue
+		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		old := e.beta[j]
+		d := soft(e.grad(j)+xv*old, l1)/(xv+l2) - old
+		if xv*d*d >= e.tolAbs {
+			return false
+		}
+	}
+	return true
+}
+
+// updateEta sets the linear predictor from the working residuals after a
+// descent from etaOld, η = η_old + (qw − q)/h − α, and returns the largest
+// change.
+func (e *residualEngine) updateEta() float64 {
+	n := e.n
+	etas, etaOld, qw, q, h := e.eta[:n], e.etaOld[:n], e.qw[:n], e.q[:n], e.h[:n]
+	alpha := e.alpha
+	var step float64
+	for t := range etas {
+		eta := etaOld[t] + (qw[t]-q[t])/h[t] - alpha
+		etas[t] = eta
+		if d := math.Abs(eta - etaOld[t]); d > step || d != d {
+			step = d
+		}
+	}
+	return step
 }
 
 // saturated reports whether the deviance explained has reached the
