@@ -162,8 +162,9 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		}
 		mu := make([]float64, len(held))
 		vals := make([]float64, len(grid))
+		ho := gatherHeldOut(path, d.Columns, held)
 		for k := range grid {
-			path.MeanTo(mu, min(k, path.Len()-1), d.Columns, held)
+			ho.meanTo(mu, path, min(k, path.Len()-1))
 			v, err := evaluate(c.Measure, fam, mu, y, w)
 			if err != nil {
 				return fmt.Errorf("cv: fold %d: %w", f, err)

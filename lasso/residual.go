@@ -41,6 +41,8 @@ type residualEngine struct {
 	// ones lists, for a 0/1 predictor, the row positions where it is 1.
 	ones  [][]int32
 	isBin []bool
+	// stale marks predictors whose xv and hxRaw predate the weights.
+	stale []bool
 
 	nullDev float64
 	tolAbs  float64
@@ -76,6 +78,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		old:    make([]float64, p),
 		ones:   make([][]int32, p),
 		isBin:  make([]bool, p),
+		stale:  make([]bool, p),
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -365,16 +368,57 @@ func dotIndexed(c []float64, rows []int, v []float64) float64 {
 	return s0 + s1
 }
 
+// squareGrad returns Σ h x̃_j² and the gradient of j, forming the
+// former and Σ h x_j first when the weights changed since they were
+// last formed; both come from one pass over the column.
+func (e *residualEngine) squareGrad(j int) (float64, float64) {
+	if !e.stale[j] {
+		return e.xv[j], e.grad(j)
+	}
+	e.stale[j] = false
+	c, m, s := e.cols[j], e.center[j], e.scale[j]
+	h, q := e.h[:e.n], e.q[:e.n]
+	var raw, sq, dq float64
+	switch {
+	case e.isBin[j]:
+		for _, t := range e.ones[j] {
+			raw += h[t]
+			dq += q[t]
+		}
+		sq = raw
+	case e.rows == nil:
+		for t, x := range c[:e.n] {
+			hx := h[t] * x
+			raw += hx
+			sq += hx * x
+			dq += q[t] * x
+		}
+	default:
+		for t, i := range e.rows {
+			x := c[i]
+			hx := h[t] * x
+			raw += hx
+			sq += hx * x
+			dq += q[t] * x
+		}
+	}
+	// Σ h (x−m)² = Σ h x² − 2m Σ h x + m² Σ h.
+	e.xv[j] = (sq - 2*m*raw + m*m*e.sumH) / (s * s)
+	e.hxRaw[j] = raw
+	sumR := e.sumQ + e.alpha*e.sumH
+	return e.xv[j], (dq + e.alpha*raw - m*sumR) / s
+}
+
 func (e *residualEngine) sweep(lam float64, set []int) float64 {
 	var maxd float64
 	for _, j := range set {
-		xv := e.xv[j]
+		xv, g := e.squareGrad(j)
 		if xv <= 0 {
 			continue
 		}
 		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
 		old := e.beta[j]
-		u := e.grad(j) + xv*old
+		u := g + xv*old
 		nb := soft(u, l1) / (xv + l2)
 		if d := nb - old; d != 0 {
 			e.beta[j] = nb
@@ -476,11 +520,12 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 	return sweeps, false
 }
 
-// squares forms Σ h x̃² and Σ h x for the predictors of set.
+// squares marks Σ h x̃² and Σ h x of the predictors of set for forming
+// at their next update, after the weights changed.
 func (e *residualEngine) squares(set []int) {
 	for _, j := range set {
 		if !e.excl[j] {
-			e.xv[j], e.hxRaw[j] = e.weightedSquare(j)
+			e.stale[j] = true
 		}
 	}
 }
@@ -496,13 +541,13 @@ func (e *residualEngine) settled(lam float64, set []int) bool {
 		}
 	}
 	for _, j := range set {
-		xv := e.xv[j]
+		xv, g := e.squareGrad(j)
 		if xv <= 0 {
 			continue
 		}
 		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
 		old := e.beta[j]
-		d := soft(e.grad(j)+xv*old, l1)/(xv+l2) - old
+		d := soft(g+xv*old, l1)/(xv+l2) - old
 		if xv*d*d >= e.tolAbs {
 			return false
 		}
