@@ -102,25 +102,11 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		ybar += e.omega[t] * e.y[t]
 	}
 	for j, c := range e.cols {
-		var m float64
-		if r.intercept {
-			for t, w := range e.omega {
-				m += w * c[e.row(t)]
-			}
-		}
-		var ss float64
-		bin := true
-		for t, w := range e.omega {
-			x := c[e.row(t)]
-			dx := x - m
-			ss += w * dx * dx
-			if x != 0 && x != 1 {
-				bin = false
-			}
-		}
+		m, ss, bin := e.columnMoments(c, j, r.intercept)
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
 			e.excl[j] = true
 			e.scale[j] = 1
+			e.ones[j] = nil
 			continue
 		}
 		e.center[j] = m
@@ -128,13 +114,10 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		if r.standard {
 			e.scale[j] = math.Sqrt(ss)
 		}
-		if bin && n < math.MaxInt32 {
+		if bin {
 			e.isBin[j] = true
-			for t := range n {
-				if c[e.row(t)] == 1 {
-					e.ones[j] = append(e.ones[j], int32(t))
-				}
-			}
+		} else {
+			e.ones[j] = nil
 		}
 	}
 	if r.intercept {
@@ -161,6 +144,59 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		}
 	}
 	return e, nil
+}
+
+// columnMoments returns, in one pass over the fitted rows of column c
+// (predictor j), its weighted mean (0 without an intercept), its weighted
+// sum of squares about that, and whether it holds only 0 and 1, in which
+// case e.ones[j] lists the positions of its ones. Sums are taken about the
+// first value, so that a large mean costs no precision.
+func (e *residualEngine) columnMoments(c []float64, j int, intercept bool) (m, ss float64, bin bool) {
+	n := e.n
+	if n == 0 {
+		return 0, 0, false
+	}
+	sh := c[e.row(0)]
+	var s1, s2 float64
+	bin = n < math.MaxInt32
+	var ones []int32
+	omega := e.omega[:n]
+	visit := func(t int, x float64) {
+		dx := x - sh
+		w := omega[t]
+		s1 += w * dx
+		s2 += w * dx * dx
+		if bin {
+			if x == 1 {
+				ones = append(ones, int32(t))
+			} else if x != 0 {
+				bin = false
+			}
+		}
+	}
+	if e.rows == nil {
+		for t, x := range c[:n] {
+			visit(t, x)
+		}
+	} else {
+		for t, i := range e.rows {
+			visit(t, c[i])
+		}
+	}
+	// The weights ω sum to one: Σω(x−m)² = s2 − 2(m−sh)·s1 + (m−sh)².
+	if intercept {
+		m = sh + s1
+		ss = s2 - s1*s1
+	} else {
+		ss = s2 + 2*sh*s1 + sh*sh
+	}
+	if ss < 0 {
+		ss = 0
+	}
+	if bin {
+		e.ones[j] = ones
+	}
+	return m, ss, bin
 }
 
 func (e *residualEngine) row(t int) int {
