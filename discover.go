@@ -56,7 +56,7 @@ func DiscoverContext(ctx context.Context, d *Dataset, o *order.Order, c *Config)
 	if err != nil {
 		return nil, err
 	}
-	r := &run{d: d, plan: plan, cfg: cfg}
+	r := &run{d: d, plan: plan, cfg: cfg, sdOnce: make([]sync.Once, len(d.cols)), sdBase: make([]float64, len(d.cols))}
 	if err := r.prepare(ctx); err != nil {
 		return nil, err
 	}
@@ -121,6 +121,10 @@ type run struct {
 	folds *cv.Folds
 	total *lasso.Moments
 	held  []*lasso.Moments
+
+	// Standard deviations of design columns over baseRows, formed once.
+	sdOnce []sync.Once
+	sdBase []float64
 }
 
 func (r *run) prepare(ctx context.Context) error {
@@ -671,8 +675,18 @@ func (r *run) score(out cvOut, v int) Score {
 }
 
 // sd returns the population standard deviation of design column c over
-// rows.
+// rows; over the base rows it is formed once per column.
 func (r *run) sd(c int, rows []int) float64 {
+	base := r.baseRows
+	same := (rows == nil && base == nil) || (len(rows) > 0 && len(rows) == len(base) && &rows[0] == &base[0])
+	if same {
+		r.sdOnce[c].Do(func() { r.sdBase[c] = r.sdOver(c, rows) })
+		return r.sdBase[c]
+	}
+	return r.sdOver(c, rows)
+}
+
+func (r *run) sdOver(c int, rows []int) float64 {
 	x := r.d.cols[c]
 	var s1, s2, n float64
 	forEach(r.d.rows, rows, func(i int) {

@@ -82,19 +82,26 @@ func heldOutMSE(m *lasso.Moments, y int, pred []int, b0 float64, b []float64) fl
 	c := m.Shift[y] - b0
 	sy := m.Sum[y]
 	quad := m.Cross[y*q+y]
+	var nz [64]int
+	idx := nz[:0]
 	for t, j := range pred {
 		if b[t] == 0 {
 			continue
 		}
+		idx = append(idx, t)
 		c -= b[t] * m.Shift[j]
 		sy -= b[t] * m.Sum[j]
 		quad -= 2 * b[t] * m.Cross[y*q+j]
-		row := m.Cross[j*q:]
-		for u, k := range pred {
-			if b[u] != 0 {
-				quad += b[t] * b[u] * row[k]
-			}
+	}
+	// b'Gb over the non-zero coefficients, each pair once.
+	for a, t := range idx {
+		bt := b[t]
+		row := m.Cross[pred[t]*q:]
+		var s float64
+		for _, u := range idx[a+1:] {
+			s += b[u] * row[pred[u]]
 		}
+		quad += bt * (bt*row[pred[t]] + 2*s)
 	}
 	sse := quad + 2*c*sy + m.Weight*c*c
 	return math.Max(sse, 0) / m.Weight
