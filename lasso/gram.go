@@ -1,6 +1,10 @@
 package lasso
 
-import "math"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/floats"
+)
 
 // gramEngine runs Gaussian coordinate descent from moments: it keeps the
 // gradient g = c − Gβ for every predictor, where G holds the standardised
@@ -27,8 +31,9 @@ type gramEngine struct {
 	active []int
 	// The gradient g is kept current only for the screened set; others
 	// are recomputed from the active columns when needed.
-	inSet []bool
-	set   []int
+	inSet   []bool
+	set     []int
+	scratch []float64
 }
 
 func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved) (*gramEngine, error) {
@@ -91,13 +96,14 @@ func (e *gramEngine) column(j int) []float64 {
 		return col
 	}
 	col := make([]float64, len(e.pred))
-	kj := e.pred[j]
+	e.m.momentRow(col, e.pred[j], e.pred, e.r.intercept)
 	sj := e.scale[j]
-	for i, ki := range e.pred {
+	for i := range col {
 		if e.excl[i] {
+			col[i] = 0
 			continue
 		}
-		col[i] = e.moment(ki, kj) / (e.scale[i] * sj)
+		col[i] /= e.scale[i] * sj
 	}
 	e.cols[j] = col
 	return col
@@ -117,9 +123,15 @@ func (e *gramEngine) sweep(lam float64, set []int) float64 {
 		if d := nb - old; d != 0 {
 			e.beta[j] = nb
 			col := e.column(j)
-			g := e.g[:len(col)]
-			for _, i := range e.set {
-				g[i] -= col[i] * d
+			if 4*len(e.set) > len(col) {
+				// Updating every entry runs as one vector operation;
+				// entries outside the set are recomputed before use.
+				floats.AddScaled(e.g, -d, col)
+			} else {
+				g := e.g[:len(col)]
+				for _, i := range e.set {
+					g[i] -= col[i] * d
+				}
 			}
 			maxd = math.Max(maxd, xv*d*d)
 		}
@@ -161,6 +173,17 @@ func (e *gramEngine) gradient(g []float64, skip []bool) {
 			act = append(act, k)
 		}
 	}
+	// Entries outside the set are c − Σ_k G_·k β_k, accumulated column
+	// by column as vector operations (the columns of active predictors
+	// are formed).
+	full := e.scratch[:0]
+	if len(act) > 0 {
+		full = append(full, e.c...)
+		for _, k := range act {
+			floats.AddScaled(full, -e.beta[k], e.cols[k])
+		}
+		e.scratch = full
+	}
 	for j := range g {
 		switch {
 		case e.inSet[j]:
@@ -168,12 +191,10 @@ func (e *gramEngine) gradient(g []float64, skip []bool) {
 		case skip != nil && skip[j]:
 		case e.excl[j]:
 			g[j] = 0
+		case len(act) == 0:
+			g[j] = e.c[j]
 		default:
-			v := e.c[j]
-			for _, k := range act {
-				v -= e.cols[k][j] * e.beta[k]
-			}
-			g[j] = v
+			g[j] = full[j]
 		}
 	}
 }

@@ -243,6 +243,9 @@ type momentSource interface {
 	mean(j int) float64
 	covariance(j, k int) float64
 	secondMoment(j, k int) float64
+	// momentRow sets dst[i] to the covariance (centred) or second
+	// moment of variables k and vars[i].
+	momentRow(dst []float64, k int, vars []int, centred bool)
 	finite(vars []int) error
 }
 
@@ -251,6 +254,42 @@ func (m *Moments) mean(j int) float64            { return m.Mean(j) }
 func (m *Moments) covariance(j, k int) float64   { return m.Covariance(j, k) }
 func (m *Moments) secondMoment(j, k int) float64 { return m.SecondMoment(j, k) }
 func (m *Moments) finite(vars []int) error       { return finiteBlock(m.Cross, nil, m.Vars, vars) }
+
+func (m *Moments) momentRow(dst []float64, k int, vars []int, centred bool) {
+	momentRow(dst, m.Cross[k*m.Vars:(k+1)*m.Vars], nil, m.Sum, nil, m.Shift, m.Weight, k, vars, centred)
+}
+
+// momentRow is momentRow of Moments for row a − b of the cross-products
+// (b nil: a alone), with sums sa − sb.
+func momentRow(dst, a, b, sa, sb, shift []float64, w float64, k int, vars []int, centred bool) {
+	sum := func(j int) float64 {
+		if sb == nil {
+			return sa[j]
+		}
+		return sa[j] - sb[j]
+	}
+	sk := sum(k)
+	dst = dst[:len(vars)]
+	switch {
+	case centred && b == nil:
+		for i, j := range vars {
+			dst[i] = (a[j] - sk*sa[j]/w) / w
+		}
+	case centred:
+		for i, j := range vars {
+			dst[i] = (a[j] - b[j] - sk*(sa[j]-sb[j])/w) / w
+		}
+	default:
+		hk := shift[k]
+		for i, j := range vars {
+			c := a[j]
+			if b != nil {
+				c -= b[j]
+			}
+			dst[i] = (c + hk*sum(j) + shift[j]*sk + w*hk*shift[j]) / w
+		}
+	}
+}
 
 // momentsDiff is a − b without forming it.
 type momentsDiff struct{ a, b *Moments }
@@ -271,6 +310,11 @@ func (d momentsDiff) secondMoment(j, k int) float64 {
 	sj, sk := d.a.Shift[j], d.a.Shift[k]
 	return (d.cross(j, k) + sj*d.sum(k) + sk*d.sum(j) + w*sj*sk) / w
 }
+func (d momentsDiff) momentRow(dst []float64, k int, vars []int, centred bool) {
+	q := d.a.Vars
+	momentRow(dst, d.a.Cross[k*q:(k+1)*q], d.b.Cross[k*q:(k+1)*q], d.a.Sum, d.b.Sum, d.a.Shift, d.weight(), k, vars, centred)
+}
+
 func (d momentsDiff) finite(vars []int) error {
 	return finiteBlock(d.a.Cross, d.b.Cross, d.a.Vars, vars)
 }

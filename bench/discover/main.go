@@ -4,7 +4,8 @@
 // side by side in one run, and prints a Markdown table of wall times, peak
 // memory, ratios and how far the edge sets agree.
 //
-//	go run ./bench/discover                        # the S and M cases
+//	go run ./bench/discover                        # the whole table
+//	go run ./bench/discover -cases S,M             # some cases
 //	go run ./bench/discover -cases L-continuous -python-nodes 20
 //	go run ./bench/discover -cases scale -skip-python
 //
@@ -42,28 +43,28 @@ type benchCase struct {
 	name   string
 	n, p   int
 	binary float64
+	// pyNodes is the number of nodes scikit-learn fits by default (0:
+	// all; −1: none), chosen so that its side of the whole table takes
+	// about an hour on the 2-core machine.
+	pyNodes int
 }
 
-var sizes = []struct {
-	label string
-	n, p  int
-}{{"S", 2_000, 30}, {"M", 20_000, 100}, {"L", 100_000, 200}}
-
 func allCases() []benchCase {
-	var out []benchCase
-	for _, s := range sizes {
-		for _, k := range []struct {
-			name  string
-			share float64
-		}{{"continuous", 0}, {"binary", 1}, {"mixed", 0.5}} {
-			out = append(out, benchCase{s.label + "-" + k.name, s.n, s.p, k.share})
-		}
+	out := []benchCase{
+		{"S-continuous", 2_000, 30, 0, 0},
+		{"S-binary", 2_000, 30, 1, 0},
+		{"S-mixed", 2_000, 30, 0.5, 0},
+		{"M-continuous", 20_000, 100, 0, 0},
+		{"M-binary", 20_000, 100, 1, 3},
+		{"M-mixed", 20_000, 100, 0.5, 3},
+		{"L-continuous", 100_000, 200, 0, 16},
+		{"L-binary", 100_000, 200, 1, 1},
+		{"L-mixed", 100_000, 200, 0.5, 2},
 	}
 	for _, n := range []int{25_000, 50_000, 100_000, 200_000} {
-		out = append(out, benchCase{fmt.Sprintf("scale-n%d", n), n, 50, 0})
+		out = append(out, benchCase{fmt.Sprintf("scale-n%d", n), n, 50, 0, -1})
 	}
-	out = append(out, benchCase{"wide-p1000", 10_000, 1000, 0}, benchCase{"huge-n1m", 1_000_000, 100, 0})
-	return out
+	return append(out, benchCase{"wide-p1000", 10_000, 1000, 0, -1}, benchCase{"huge-n1m", 1_000_000, 100, 0, -1})
 }
 
 const folds = 10
@@ -75,8 +76,8 @@ func main() {
 	p := flag.Int("p", 0, "internal: columns")
 	orderPath := flag.String("order", "", "internal: order file")
 	outPath := flag.String("out", "", "internal: result file")
-	only := flag.String("cases", "S-continuous,S-binary,S-mixed,M-continuous,M-binary,M-mixed", "comma-separated cases, or prefixes such as L or scale")
-	pyNodes := flag.Int("python-nodes", 0, "run scikit-learn on this many nodes (evenly spaced) and scale its time up; 0 = all")
+	only := flag.String("cases", "S,M,L,scale,wide,huge", "comma-separated cases, or prefixes such as L or scale")
+	pyNodes := flag.Int("python-nodes", -1, "run scikit-learn on this many nodes (evenly spaced) and scale its time up; 0 = all; −1 = each case's default")
 	skipPy := flag.Bool("skip-python", false, "time antecedent only")
 	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
 	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of antecedent's fitting in the last case run to this file")
@@ -207,6 +208,10 @@ func peakKiB() int64 {
 }
 
 func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, profile string) (string, error) {
+	if pyNodes < 0 {
+		pyNodes = c.pyNodes
+	}
+	skipPy = skipPy || pyNodes < 0
 	m, o, err := simulate.Random(simulate.RandomSettings{Variables: c.p, Tiers: 5, BinaryShare: c.binary}, uint64(c.n+c.p))
 	if err != nil {
 		return "", err
