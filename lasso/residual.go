@@ -249,6 +249,13 @@ func (e *residualEngine) working() {
 			e.dev, e.devOK = dev*e.total, true
 		}
 	}
+	if !e.r.gaussian {
+		// New weights: each predictor's Σ h x̃² is formed again at its
+		// next update.
+		for j, x := range e.excl {
+			e.stale[j] = !x
+		}
+	}
 	e.fresh = true
 }
 
@@ -481,13 +488,8 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
 	}
 	sweeps := 0
-	formed := false // working weights and squares are current
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
-		if !formed {
-			e.working()
-			e.squares(set)
-		}
-		formed = false
+		e.working()
 		copy(e.old, e.beta)
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
@@ -547,23 +549,11 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		e.wantDev = true
 		e.working()
 		e.wantDev = false
-		e.squares(set)
-		formed = true
 		if e.settled(lam, set) {
 			return sweeps, true
 		}
 	}
 	return sweeps, false
-}
-
-// squares marks Σ h x̃² and Σ h x of the predictors of set for forming
-// at their next update, after the weights changed.
-func (e *residualEngine) squares(set []int) {
-	for _, j := range set {
-		if !e.excl[j] {
-			e.stale[j] = true
-		}
-	}
 }
 
 // settled reports whether a coordinate-descent sweep over set (and the
