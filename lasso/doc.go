@@ -37,7 +37,9 @@
 // updates a residual vector, costing O(n) per update. Other families are
 // fitted by iteratively reweighted least squares: at each outer step the
 // loss is replaced by its quadratic approximation and that weighted problem
-// is solved by coordinate descent in ResidualMode. Binomial working weights
+// is solved by coordinate descent in ResidualMode, until a sweep at the new
+// weights would move no coordinate beyond the tolerance; from a warm start
+// that usually takes one step per penalty. Binomial working weights
 // keep fitted probabilities away from 0 and 1; a path whose deviance
 // explained reaches SaturationLimit (perfect separation, for instance) ends
 // early with Status Saturated instead of diverging.
