@@ -114,11 +114,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		if r.standard {
 			e.scale[j] = math.Sqrt(ss)
 		}
-		if bin {
-			e.isBin[j] = true
-		} else {
-			e.ones[j] = nil
-		}
+		e.isBin[j] = bin
 	}
 	if r.intercept {
 		e.b0 = r.fam.Link(ybar)
@@ -452,17 +448,22 @@ func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	return e.xv[j], (dq + e.alpha*raw - m*sumR) / s
 }
 
+// update returns Σ h x̃_j² and the value a coordinate update would give
+// coefficient j at penalty lam (its old value when xv ≤ 0).
+func (e *residualEngine) update(lam float64, j int) (xv, nb float64) {
+	xv, g := e.squareGrad(j)
+	if xv <= 0 {
+		return xv, e.beta[j]
+	}
+	l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+	return xv, soft(g+xv*e.beta[j], l1) / (xv + l2)
+}
+
 func (e *residualEngine) sweep(lam float64, set []int) float64 {
 	var maxd float64
 	for _, j := range set {
-		xv, g := e.squareGrad(j)
-		if xv <= 0 {
-			continue
-		}
-		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		xv, nb := e.update(lam, j)
 		old := e.beta[j]
-		u := g + xv*old
-		nb := soft(u, l1) / (xv + l2)
 		if d := nb - old; d != 0 {
 			e.beta[j] = nb
 			e.shift(j, d)
@@ -567,14 +568,8 @@ func (e *residualEngine) settled(lam float64, set []int) bool {
 		}
 	}
 	for _, j := range set {
-		xv, g := e.squareGrad(j)
-		if xv <= 0 {
-			continue
-		}
-		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
-		old := e.beta[j]
-		d := soft(g+xv*old, l1)/(xv+l2) - old
-		if xv*d*d >= e.tolAbs {
+		xv, nb := e.update(lam, j)
+		if d := nb - e.beta[j]; xv*d*d >= e.tolAbs {
 			return false
 		}
 	}
