@@ -3,6 +3,7 @@ package lasso_test
 import (
 	"context"
 	"fmt"
+	"math/rand/v2"
 	"sync"
 	"testing"
 
@@ -56,4 +57,34 @@ func BenchmarkGaussianResidualN100kP50(b *testing.B) {
 }
 func BenchmarkBinomialN100kP50(b *testing.B) {
 	benchPath(b, 100_000, 50, lasso.Settings{Family: lasso.Binomial{}})
+}
+
+// BenchmarkBinomialIndicatorsN20kP40 fits a binomial path on 0/1
+// predictors that are mostly ones (prevalences 0.85), which the residual
+// engine holds by the positions of their zeros.
+func BenchmarkBinomialIndicatorsN20kP40(b *testing.B) {
+	const n, p = 20_000, 40
+	rng := rand.New(rand.NewPCG(1, 2))
+	cols := make([][]float64, p)
+	for j := range cols {
+		cols[j] = make([]float64, n)
+		for i := range cols[j] {
+			if rng.Float64() < 0.85 {
+				cols[j][i] = 1
+			}
+		}
+	}
+	y := make([]float64, n)
+	for i := range y {
+		if rng.Float64() < 0.2+0.3*cols[0][i] {
+			y[i] = 1
+		}
+	}
+	d := lasso.Data{Columns: cols, Response: y}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := lasso.Fit(context.Background(), d, &lasso.Settings{Family: lasso.Binomial{}}); err != nil {
+			b.Fatal(err)
+		}
+	}
 }

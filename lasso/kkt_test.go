@@ -2,6 +2,7 @@ package lasso_test
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -308,6 +309,52 @@ func samePath(t *testing.T, label string, a, b *lasso.Path, tol float64) {
 			if math.Abs(x[j]-y[j]) > tol {
 				t.Errorf("%s, penalty %d predictor %d: %g vs %g", label, k, j, x[j], y[j])
 			}
+		}
+	}
+}
+
+// A 0/1 predictor that is mostly ones is fitted internally as 1 − x.
+// Doubling it makes it an ordinary column with the same standardised
+// problem, so the two paths agree once its coefficient is halved (common
+// practice: standardisation makes the lasso scale-free).
+func TestMostlyOnesPredictor(t *testing.T) {
+	for _, binomial := range []bool{false, true} {
+		for _, weighted := range []bool{false, true} {
+			pr := randomProblem(41, 400, 5, binomial, weighted)
+			rng := rand.New(rand.NewPCG(42, 43))
+			ones, twos := make([]float64, 400), make([]float64, 400)
+			for i := range ones {
+				if rng.Float64() < 0.8 {
+					ones[i], twos[i] = 1, 2
+				}
+			}
+			if !binomial {
+				for i := range pr.y {
+					pr.y[i] += 0.7 * ones[i]
+				}
+			}
+			fit := func(col []float64) *lasso.Path {
+				cols := append(append([][]float64{}, pr.x...), col)
+				s := &lasso.Settings{Mode: lasso.ResidualMode}
+				if binomial {
+					s.Family = lasso.Binomial{}
+				}
+				path, err := lasso.Fit(context.Background(), lasso.Data{Columns: cols, Response: pr.y, Weights: pr.weights}, s)
+				if err != nil {
+					t.Fatal(err)
+				}
+				return path
+			}
+			a, b := fit(ones), fit(twos)
+			last := len(pr.x)
+			for k := range b.Coefficients {
+				for i, j := range b.Coefficients[k].Index {
+					if j == last {
+						b.Coefficients[k].Value[i] *= 2
+					}
+				}
+			}
+			samePath(t, fmt.Sprintf("binomial=%v weighted=%v", binomial, weighted), a, b, 1e-6)
 		}
 	}
 }

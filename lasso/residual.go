@@ -38,9 +38,11 @@ type residualEngine struct {
 	hxRaw []float64 // Σ h x (uncentred, unscaled)
 	sumH  float64
 	sumQ  float64 // Σ q
-	// ones lists, for a 0/1 predictor, the row positions where it is 1.
+	// ones lists, for a 0/1 predictor, the row positions where it is 1
+	// (where it is 0 when flip is set: the engine then works with 1 − x).
 	ones  [][]int32
 	isBin []bool
+	flip  []bool
 	// stale marks predictors whose xv and hxRaw predate the weights.
 	stale []bool
 
@@ -79,6 +81,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		ones:   make([][]int32, p),
 		isBin:  make([]bool, p),
 		stale:  make([]bool, p),
+		flip:   make([]bool, p),
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -115,6 +118,14 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			e.scale[j] = math.Sqrt(ss)
 		}
 		e.isBin[j] = bin
+		if bin && r.intercept && 2*len(e.ones[j]) > n {
+			// Mostly ones: work with 1 − x, whose ones are fewer; the
+			// intercept absorbs the constant and toOriginal turns the
+			// coefficient back.
+			e.flip[j] = true
+			e.center[j] = 1 - m
+			e.ones[j] = e.zerosOf(c, len(e.ones[j]))
+		}
 	}
 	if r.intercept {
 		e.b0 = r.fam.Link(ybar)
@@ -651,7 +662,27 @@ func (e *residualEngine) gradient(g []float64, skip []bool) {
 }
 
 func (e *residualEngine) toOriginal(b []float64) float64 {
-	return unstandardize(b, e.beta, e.scale, e.center, e.b0)
+	b0 := unstandardize(b, e.beta, e.scale, e.center, e.b0)
+	// A flipped predictor enters as b·(1 − x) = b − b·x.
+	for j, f := range e.flip {
+		if f {
+			b0 += b[j]
+			b[j] = -b[j]
+		}
+	}
+	return b0
+}
+
+// zerosOf lists the positions of the zeros of 0/1 column c among the
+// fitted rows, given its number of ones.
+func (e *residualEngine) zerosOf(c []float64, ones int) []int32 {
+	zeros := make([]int32, 0, e.n-ones)
+	for t := range e.n {
+		if c[e.row(t)] == 0 {
+			zeros = append(zeros, int32(t))
+		}
+	}
+	return zeros
 }
 
 func (e *residualEngine) deviance() float64 {
