@@ -144,10 +144,10 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	}
 	e.working()
 	if r.gaussian {
-		for j := range e.cols {
-			if !e.excl[j] {
-				e.xv[j], e.hxRaw[j] = e.weightedSquare(j)
-			}
+		// The weights never change: each Σ h x̃² is formed at the
+		// predictor's first update.
+		for j, x := range e.excl {
+			e.stale[j] = !x
 		}
 	}
 	return e, nil
@@ -304,38 +304,6 @@ func (e *residualEngine) workingBinomial(wantDev bool) {
 	e.sumH, e.sumQ = sumH, sumQ
 }
 
-// weightedSquare returns Σ h x̃_j² and Σ h x_j.
-func (e *residualEngine) weightedSquare(j int) (float64, float64) {
-	c, m, s := e.cols[j], e.center[j], e.scale[j]
-	h := e.h[:e.n]
-	if e.isBin[j] {
-		var s1 float64
-		for _, t := range e.ones[j] {
-			s1 += h[t]
-		}
-		// Σ h (x−m)² = (1−2m)·Σ_ones h + m²·Σ h for x in {0, 1}.
-		return ((1-2*m)*s1 + m*m*e.sumH) / (s * s), s1
-	}
-	var sq, raw float64
-	if e.rows == nil {
-		c = c[:e.n]
-		for t, x := range c {
-			hx := h[t] * x
-			raw += hx
-			sq += hx * x
-		}
-	} else {
-		for t, i := range e.rows {
-			x := c[i]
-			hx := h[t] * x
-			raw += hx
-			sq += hx * x
-		}
-	}
-	// Σ h (x−m)² = Σ h x² − 2m Σ h x + m² Σ h.
-	return (sq - 2*m*raw + m*m*e.sumH) / (s * s), raw
-}
-
 // dotQ returns Σ x_j·q.
 func (e *residualEngine) dotQ(j int) float64 {
 	if e.isBin[j] {
@@ -359,7 +327,7 @@ func (e *residualEngine) dotQ(j int) float64 {
 }
 
 // grad returns Σ h x̃_j r = (Σ x·(q + αh) − m·Σ(q + αh))/s, using Σ h x
-// from the last weightedSquare of j.
+// as squareGrad last formed it.
 func (e *residualEngine) grad(j int) float64 {
 	sumR := e.sumQ + e.alpha*e.sumH
 	return (e.dotQ(j) + e.alpha*e.hxRaw[j] - e.center[j]*sumR) / e.scale[j]
