@@ -2,48 +2,11 @@ package antecedent
 
 import (
 	"fmt"
-	"math"
 
 	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/lasso"
+	"github.com/antecedent-lab/antecedent/table"
 )
-
-// MissingPolicy says what Discover does with missing values.
-type MissingPolicy int
-
-const (
-	// MissingIsError refuses data with missing values, naming the columns
-	// and their first missing rows.
-	MissingIsError MissingPolicy = iota
-	// CompleteCase drops every row with a missing value in any variable.
-	CompleteCase
-	// AvailableCase fits each node on the rows where it and all its
-	// candidate parents are present.
-	AvailableCase
-)
-
-var missingNames = []string{"error", "complete-case", "available-case"}
-
-// String returns the policy's name.
-func (m MissingPolicy) String() string {
-	if m >= 0 && int(m) < len(missingNames) {
-		return missingNames[m]
-	}
-	return fmt.Sprintf("MissingPolicy(%d)", int(m))
-}
-
-// MarshalText implements encoding.TextMarshaler.
-func (m MissingPolicy) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
-
-// UnmarshalText implements encoding.TextUnmarshaler.
-func (m *MissingPolicy) UnmarshalText(b []byte) error {
-	for i, n := range missingNames {
-		if n == string(b) {
-			*m = MissingPolicy(i)
-			return nil
-		}
-	}
-	return fmt.Errorf("antecedent: unknown missing-value policy %q (want error, complete-case or available-case)", b)
-}
 
 // Stability configures complementary-pairs subsampling (Shah & Samworth
 // 2013, JRSS-B 75:55–80): each of Pairs random splits of a node's rows
@@ -65,28 +28,31 @@ type Progress struct {
 }
 
 // Config configures Discover. The zero value, or a nil *Config, gives the
-// defaults written on each field. A Config is stored in the Result.
+// defaults written on each field. A Config is stored in the Result as it
+// was given: zero fields there mean the defaults of this version, and each
+// node records the penalties, measure and rule it was fitted with.
 type Config struct {
 	// Folds is the number of cross-validation folds; zero means 10.
 	Folds int `json:"folds"`
-	// Rule chooses each node's penalty; zero means the one-standard-error
-	// rule.
-	Rule cv.Rule `json:"rule"`
-	// Measure is the cross-validated loss; zero means deviance.
-	Measure cv.Measure `json:"measure"`
-	// Mixing is the L1 share of the penalty in (0, 1]; zero means 1, the
-	// lasso.
-	Mixing float64 `json:"mixing"`
-	// Penalties is the length of each node's penalty path; zero means 100.
-	Penalties int `json:"penalties"`
-	// Tolerance is the solver's convergence threshold; zero means 1e-7.
-	Tolerance float64 `json:"tolerance"`
+	// CV configures each node's cross-validated path as package cv does:
+	// CV.Path the solver (mixing, penalty grid, tolerance; lasso's
+	// defaults), CV.Measure the held-out loss and CV.Rule the penalty
+	// choice (cv's defaults: deviance and the one-standard-error rule).
+	// Each node's family and penalty factors are set per node, so
+	// CV.Path.Family and CV.Path.PenaltyScale must be left unset; CV.Workers
+	// is not used (nodes are fitted in parallel, see Workers).
+	CV cv.Settings `json:"cv"`
+	// Families gives, by variable name, the loss of a variable fitted as a
+	// response in place of the one its kind implies (Gaussian for
+	// continuous, binomial for binary). It is not stored in the Result;
+	// each node records its family's name.
+	Families map[string]lasso.Family `json:"-"`
 	// Seed makes folds and subsamples reproducible.
 	Seed uint64 `json:"seed"`
 	// Workers bounds the nodes fitted at once; zero means GOMAXPROCS.
 	Workers int `json:"workers"`
 	// Missing is the missing-value policy.
-	Missing MissingPolicy `json:"missing"`
+	Missing table.MissingPolicy `json:"missing"`
 	// Stability turns on stability selection when Pairs > 0.
 	Stability Stability `json:"stability"`
 	// SameTier also reports associations between variables of the same
@@ -97,6 +63,18 @@ type Config struct {
 	Progress func(Progress) `json:"-"`
 }
 
+// Validate returns the error Discover would return for this
+// configuration before looking at any data: a value out of range, wrapping
+// ErrConfig. A nil *Config is valid.
+func (c *Config) Validate() error {
+	_, err := c.resolve()
+	return err
+}
+
+// resolve returns the configuration with Discover's own defaults filled
+// in (folds, stability threshold), or an error wrapping ErrConfig for the
+// first setting that is out of range (a *ConfigError). The solver's and cross-validation's
+// settings are checked by their packages.
 func (c *Config) resolve() (Config, error) {
 	var r Config
 	if c != nil {
@@ -106,50 +84,29 @@ func (c *Config) resolve() (Config, error) {
 		r.Folds = 10
 	}
 	if r.Folds < 2 {
-		return r, fmt.Errorf("%w: %d folds, need at least 2", ErrConfig, r.Folds)
+		return r, &ConfigError{"Folds", fmt.Sprint(r.Folds), "need at least 2"}
 	}
-	if r.Rule != cv.OneStandardError && r.Rule != cv.MinimumLoss {
-		return r, fmt.Errorf("%w: unknown rule %d", ErrConfig, int(r.Rule))
+	if err := r.CV.Validate(); err != nil {
+		return r, &ConfigError{"CV", "", err.Error()}
 	}
-	if _, err := cv.ParseMeasure(r.Measure.String()); err != nil {
-		return r, fmt.Errorf("%w: %v", ErrConfig, err)
-	}
-	if r.Measure == cv.DefaultMeasure {
-		r.Measure = cv.Deviance
-	}
-	if r.Mixing == 0 {
-		r.Mixing = 1
-	}
-	if !(r.Mixing > 0 && r.Mixing <= 1) {
-		return r, fmt.Errorf("%w: mixing %g outside (0, 1]", ErrConfig, r.Mixing)
-	}
-	if r.Penalties == 0 {
-		r.Penalties = 100
-	}
-	if r.Penalties < 2 {
-		return r, fmt.Errorf("%w: %d penalties, need at least 2", ErrConfig, r.Penalties)
-	}
-	if r.Tolerance == 0 {
-		r.Tolerance = 1e-7
-	}
-	if !(r.Tolerance > 0) || math.IsInf(r.Tolerance, 0) {
-		return r, fmt.Errorf("%w: tolerance %g", ErrConfig, r.Tolerance)
+	if r.CV.Path.Family != nil || r.CV.Path.PenaltyScale != nil {
+		return r, &ConfigError{"CV.Path", "", "Family and PenaltyScale are set per node; use Config.Families and required edges"}
 	}
 	if r.Workers < 0 {
-		return r, fmt.Errorf("%w: %d workers", ErrConfig, r.Workers)
+		return r, &ConfigError{"Workers", fmt.Sprint(r.Workers), "must be 0 (one per CPU) or more"}
 	}
-	if r.Missing < MissingIsError || r.Missing > AvailableCase {
-		return r, fmt.Errorf("%w: unknown missing-value policy %d", ErrConfig, int(r.Missing))
+	if r.Missing < table.MissingIsError || r.Missing > table.AvailableCase {
+		return r, &ConfigError{"Missing", fmt.Sprint(int(r.Missing)), "unknown missing-value policy"}
 	}
 	if r.Stability.Pairs < 0 {
-		return r, fmt.Errorf("%w: %d stability pairs", ErrConfig, r.Stability.Pairs)
+		return r, &ConfigError{"Stability.Pairs", fmt.Sprint(r.Stability.Pairs), "must be 0 (off) or more"}
 	}
 	if r.Stability.Pairs > 0 {
 		if r.Stability.Threshold == 0 {
 			r.Stability.Threshold = 0.75
 		}
 		if !(r.Stability.Threshold > 0.5 && r.Stability.Threshold <= 1) {
-			return r, fmt.Errorf("%w: stability threshold %g outside (0.5, 1]", ErrConfig, r.Stability.Threshold)
+			return r, &ConfigError{"Stability.Threshold", fmt.Sprint(r.Stability.Threshold), "must be in (0.5, 1]"}
 		}
 	}
 	return r, nil

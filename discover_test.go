@@ -8,42 +8,37 @@ import (
 	"math"
 	"reflect"
 	"slices"
+	"strings"
 	"testing"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/dag"
 	"github.com/antecedent-lab/antecedent/internal/opendata"
-	"github.com/antecedent-lab/antecedent/metrics"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
-func dataset(t testing.TB, s *simulate.Sample) *antecedent.Dataset {
+func dataset(t testing.TB, s *simulate.Sample) *table.Dataset {
 	t.Helper()
-	d, err := antecedent.NewDataset(s.Names, s.Columns)
+	d, err := table.NewDataset(s.Names, s.Columns)
 	if err != nil {
 		t.Fatal(err)
 	}
 	return d
 }
 
-func edgesOf(r *antecedent.Result) []metrics.Edge {
-	var out []metrics.Edge
-	for _, e := range r.Edges {
-		out = append(out, metrics.Edge{From: e.From, To: e.To})
-	}
-	return out
+// hasEdge reports whether edges hold an edge from → to.
+func hasEdge(edges []dag.Edge, from, to string) bool {
+	return slices.ContainsFunc(edges, func(e dag.Edge) bool { return e.From == from && e.To == to })
 }
 
-func truthOf(t testing.TB, m *simulate.Model) []metrics.Edge {
+func truthOf(t testing.TB, m *simulate.Model) []dag.Edge {
 	g, err := m.Graph()
 	if err != nil {
 		t.Fatal(err)
 	}
-	var out []metrics.Edge
-	for _, e := range g.Edges() {
-		out = append(out, metrics.Edge{From: e.From, To: e.To})
-	}
-	return out
+	return g.Edges()
 }
 
 // TestAsiaRecovery simulates the Asia network of Lauritzen & Spiegelhalter
@@ -65,17 +60,16 @@ func TestAsiaRecovery(t *testing.T) {
 		t.Fatal(err)
 	}
 	truth := truthOf(t, simulate.Asia())
-	score, err := metrics.CompareGraphs(edgesOf(res), truth)
+	score, err := dag.Compare(res.Edges, truth)
 	if err != nil {
 		t.Fatal(err)
 	}
-	t.Logf("Asia n=10000: precision %.3f recall %.3f SHD %d, edges %v", score.Precision, score.Recall, score.SHD, edgesOf(res))
-	got := edgesOf(res)
+	t.Logf("Asia n=10000: precision %.3f recall %.3f SHD %d, edges %v", score.Precision, score.Recall, score.SHD, res.Edges)
 	for _, e := range truth {
 		if e.From == "A" {
 			continue
 		}
-		if !slices.Contains(got, e) {
+		if !hasEdge(res.Edges, e.From, e.To) {
 			t.Errorf("missed %s -> %s", e.From, e.To)
 		}
 	}
@@ -113,7 +107,7 @@ func TestRandomGaussianRecovery(t *testing.T) {
 				t.Errorf("edge %s -> %s goes backwards in time", e.From, e.To)
 			}
 		}
-		sc, _ := metrics.CompareGraphs(edgesOf(res), truthOf(t, m))
+		sc, _ := dag.Compare(res.Edges, truthOf(t, m))
 		tp += sc.Correct
 		est += len(res.Edges)
 		tru += sc.Correct + sc.Missing + sc.Reversed
@@ -166,7 +160,7 @@ func TestRefitAgainstStatsmodels(t *testing.T) {
 		for j, n := range names {
 			cols[j] = tab.Column(n)
 		}
-		d, err := antecedent.NewDataset(names, cols)
+		d, err := table.NewDataset(names, cols)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -203,31 +197,7 @@ func TestRefitAgainstStatsmodels(t *testing.T) {
 	}
 }
 
-// TestStabilityBound checks the bound of Meinshausen & Bühlmann (2010),
-// Theorem 1, E[V] ≤ q²/((2π−1)p), on cases worked by hand.
-func TestStabilityBound(t *testing.T) {
-	cases := []struct {
-		q    float64
-		p    int
-		pi   float64
-		want float64
-	}{
-		{4, 20, 0.75, 1.6}, // 16 / (0.5 · 20)
-		{2, 10, 0.9, 0.5},  // 4 / (0.8 · 10)
-		{3, 100, 1, 0.09},  // 9 / (1 · 100)
-		{1, 5, 0.6, 1.0},   // 1 / (0.2 · 5)
-	}
-	for _, c := range cases {
-		if got := antecedent.StabilityBound(c.q, c.p, c.pi); math.Abs(got-c.want) > 1e-12 {
-			t.Errorf("bound(%g, %d, %g) = %g, want %g", c.q, c.p, c.pi, got, c.want)
-		}
-	}
-	if !math.IsNaN(antecedent.StabilityBound(1, 5, 0.5)) || !math.IsNaN(antecedent.StabilityBound(1, 0, 0.8)) {
-		t.Error("bound outside its domain should be NaN")
-	}
-}
-
-func smallProblem(t testing.TB, seed uint64) (*antecedent.Dataset, *order.Order, *simulate.Model) {
+func smallProblem(t testing.TB, seed uint64) (*table.Dataset, *order.Order, *simulate.Model) {
 	m := &simulate.Model{Nodes: []simulate.Node{
 		{Name: "age"},
 		{Name: "female", Binary: true, Prevalence: 0.5},
@@ -269,9 +239,9 @@ func TestStabilitySelection(t *testing.T) {
 			t.Errorf("edge %s -> %s kept at frequency %g", e.From, e.To, e.Frequency)
 		}
 	}
-	sc, _ := metrics.CompareGraphs(edgesOf(res), truthOf(t, m))
+	sc, _ := dag.Compare(res.Edges, truthOf(t, m))
 	if sc.Recall < 0.99 {
-		t.Errorf("stable edges %v miss true ones (recall %.2f)", edgesOf(res), sc.Recall)
+		t.Errorf("stable edges %v miss true ones (recall %.2f)", res.Edges, sc.Recall)
 	}
 }
 
@@ -324,16 +294,16 @@ func TestMissingPolicies(t *testing.T) {
 	for j := range cols {
 		before[j] = slices.Clone(cols[j])
 	}
-	d, err := antecedent.NewDataset(names, cols)
+	d, err := table.NewDataset(names, cols)
 	if err != nil {
 		t.Fatal(err)
 	}
 	_, err = antecedent.Discover(d, o)
-	var me *antecedent.MissingError
-	if !errors.As(err, &me) || !errors.Is(err, antecedent.ErrMissing) || len(me.Columns) != 2 || me.Columns[0].Name != "bmi" || me.Columns[0].FirstRows[0] != 11 {
+	var me *table.MissingError
+	if !errors.As(err, &me) || !errors.Is(err, table.ErrMissing) || len(me.Columns) != 2 || me.Columns[0].Name != "bmi" || me.Columns[0].FirstRows[0] != 11 {
 		t.Fatalf("error %v", err)
 	}
-	for _, policy := range []antecedent.MissingPolicy{antecedent.CompleteCase, antecedent.AvailableCase} {
+	for _, policy := range []table.MissingPolicy{table.CompleteCase, table.AvailableCase} {
 		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Missing: policy})
 		if err != nil {
 			t.Fatalf("%v: %v", policy, err)
@@ -341,11 +311,11 @@ func TestMissingPolicies(t *testing.T) {
 		out, _ := res.Node("outcome")
 		age, _ := res.Node("bmi")
 		switch policy {
-		case antecedent.CompleteCase:
+		case table.CompleteCase:
 			if out.Rows != 1497 || age.Rows != 1497 {
 				t.Errorf("complete case rows %d %d, want 1497", out.Rows, age.Rows)
 			}
-		case antecedent.AvailableCase:
+		case table.AvailableCase:
 			if out.Rows != 1497 || age.Rows != 1498 {
 				t.Errorf("available case rows: outcome %d (want 1497), bmi %d (want 1498)", out.Rows, age.Rows)
 			}
@@ -374,5 +344,46 @@ func TestCancelDiscover(t *testing.T) {
 	cancel()
 	if _, err := antecedent.DiscoverContext(ctx, d, o, nil); !errors.Is(err, context.Canceled) {
 		t.Fatalf("error %v", err)
+	}
+}
+
+func TestCategoricalPredictor(t *testing.T) {
+	// site shifts the outcome for "south" only; an edge from site exists
+	// when any level is selected.
+	var b strings.Builder
+	b.WriteString("site,outcome\n")
+	sites := []string{"east", "north", "south"}
+	for i := range 600 {
+		s := sites[i%3]
+		y := float64(i%7) / 7
+		if s == "south" {
+			y += 2
+		}
+		b.WriteString(s + "," + strings.TrimRight(strings.TrimRight(ftoa(y), "0"), ".") + "\n")
+	}
+	d, err := table.ReadCSV(strings.NewReader(b.String()), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	o := mustOrder(t, "tier: site\ntier: outcome\n")
+	res, err := antecedent.Discover(d, o)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Edges) != 1 || res.Edges[0].From != "site" {
+		t.Fatalf("edges %+v", res.Edges)
+	}
+	n, _ := res.Node("outcome")
+	var terms []string
+	for _, e := range n.Effects {
+		terms = append(terms, e.Term)
+	}
+	if !slices.Equal(terms, []string{"site=north", "site=south"}) {
+		t.Errorf("effect terms %v", terms)
+	}
+	// A categorical response is refused with a clear error.
+	o2 := mustOrder(t, "tier: outcome\ntier: site\n")
+	if _, err := antecedent.Discover(d, o2); !errors.Is(err, table.ErrData) || !strings.Contains(err.Error(), "categorical") {
+		t.Errorf("categorical response: %v", err)
 	}
 }

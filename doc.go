@@ -15,7 +15,7 @@
 // selection gives every edge a selection frequency and the run a bound on
 // the expected number of false edges.
 //
-//	d, err := antecedent.ReadCSV(file, nil)
+//	d, err := table.ReadCSV(file, nil)
 //	o, err := order.Parse(orderFile)
 //	res, err := antecedent.Discover(d, o)
 //	g, err := res.Graph() // a dag.Graph: parents, Markov blankets, DOT, GraphML
@@ -26,8 +26,10 @@
 // the directions to mean anything. Results do not replace clinical
 // judgement, local rules, or licensed statistical and medical review.
 //
-// The work is split into packages usable on their own: lasso (the path
-// solver), cv (folds and penalty selection), metrics (scores and graph
-// comparison), order (tiers and constraints), dag (the graph value) and
-// simulate (data from a known graph).
+// The work is split into packages usable on their own: table (the data),
+// lasso (the path solver), cv (folds and penalty selection), metrics
+// (scores), order (tiers and constraints), dag (the graph value and graph
+// comparison) and simulate (data from a known graph). This package ties
+// them together and owns only the per-node pipeline and the result. The
+// map of packages and their import direction is in DEVELOPERS.md.
 package antecedent

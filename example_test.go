@@ -9,6 +9,7 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // Example shows the whole job on a small simulated study: data and an
@@ -25,7 +26,7 @@ func Example() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	data, err := antecedent.NewDataset(s.Names, s.Columns)
+	data, err := table.NewDataset(s.Names, s.Columns)
 	if err != nil {
 		log.Fatal(err)
 	}

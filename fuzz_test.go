@@ -4,55 +4,21 @@ import (
 	"bytes"
 	"context"
 	"encoding/json"
-	"math"
 	"strings"
 	"testing"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/lasso"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/table"
 )
-
-// FuzzReadCSV checks that the CSV reader never panics and that whatever it
-// accepts is a consistent dataset.
-func FuzzReadCSV(f *testing.F) {
-	f.Add([]byte("x,y\n1,2\n3,4\n"))
-	f.Add([]byte("\ufeffa,b,c\nyes,1.5,NA\nno,2,3\n"))
-	f.Add([]byte("a,b\n\"1\n2\",3\n4,5\n"))
-	f.Add([]byte("a,b\n1,Inf\n"))
-	f.Add([]byte("site,y\nnorth,1\nsouth,0\neast,1\n"))
-	f.Fuzz(func(t *testing.T, in []byte) {
-		d, err := antecedent.ReadCSV(bytes.NewReader(in), &antecedent.CSVOptions{MaxFieldBytes: 4096, MaxColumns: 200})
-		if err != nil {
-			if !strings.HasPrefix(err.Error(), "antecedent: ") {
-				t.Fatalf("error without the package prefix: %v", err)
-			}
-			return
-		}
-		if d.Rows() < 1 {
-			t.Fatalf("accepted a dataset with %d rows", d.Rows())
-		}
-		for _, v := range d.Variables() {
-			if v.Kind == antecedent.Categorical {
-				continue
-			}
-			c, err := d.Column(v.Name)
-			if err != nil || len(c) != d.Rows() {
-				t.Fatalf("column %q: %v, %d values for %d rows", v.Name, err, len(c), d.Rows())
-			}
-			for _, x := range c {
-				if math.IsInf(x, 0) {
-					t.Fatalf("column %q holds an infinite value", v.Name)
-				}
-			}
-		}
-	})
-}
 
 // FuzzReadResult checks that result decoding never panics and that an
 // accepted result survives a second round trip unchanged.
 func FuzzReadResult(f *testing.F) {
 	d, o, _ := smallProblemFuzz()
-	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Folds: 3, Penalties: 8})
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Folds: 3, CV: cv.Settings{Path: lasso.Settings{NumPenalties: 8}}})
 	if err == nil {
 		b, _ := json.Marshal(res)
 		f.Add(b)
@@ -79,10 +45,10 @@ func FuzzReadResult(f *testing.F) {
 	})
 }
 
-func smallProblemFuzz() (*antecedent.Dataset, *order.Order, error) {
+func smallProblemFuzz() (*table.Dataset, *order.Order, error) {
 	names := []string{"a", "b", "c"}
 	cols := [][]float64{{1, 2, 3, 4, 5, 6, 7, 8, 9}, {0, 1, 0, 1, 1, 0, 1, 0, 1}, {2, 3, 5, 4, 7, 8, 8, 10, 12}}
-	d, err := antecedent.NewDataset(names, cols)
+	d, err := table.NewDataset(names, cols)
 	return d, &order.Order{Tiers: [][]string{{"a"}, {"b"}, {"c"}}}, err
 }
 
@@ -118,7 +84,7 @@ func FuzzDiscover(f *testing.F) {
 				}
 			}
 		}
-		d, err := antecedent.NewDataset(names, cols)
+		d, err := table.NewDataset(names, cols)
 		if err != nil {
 			return
 		}
@@ -129,7 +95,7 @@ func FuzzDiscover(f *testing.F) {
 			}
 			o.Tiers[len(o.Tiers)-1] = append(o.Tiers[len(o.Tiers)-1], names[j])
 		}
-		cfg := &antecedent.Config{Folds: 3, Penalties: 10}
+		cfg := &antecedent.Config{Folds: 3, CV: cv.Settings{Path: lasso.Settings{NumPenalties: 10}}}
 		res, err := antecedent.DiscoverContext(context.Background(), d, o, cfg)
 		if err != nil {
 			if !strings.HasPrefix(err.Error(), "antecedent: ") && !strings.HasPrefix(err.Error(), "order: ") {

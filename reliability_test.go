@@ -11,7 +11,10 @@ import (
 	"testing"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/lasso"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // badInput is one entry of the catalogue of bad or degenerate inputs. Each
@@ -70,24 +73,24 @@ func badInputs() []badInput {
 	huge := column(n, 6, func(r *rand.Rand, _ int) float64 { return 1e12 * r.NormFloat64() })
 	return []badInput{
 		// Malformed CSV.
-		{name: "csv ragged row", csv: "x,y\n1,2\n3\n", order: okOrder, wantErr: antecedent.ErrCSV, mention: "line 3"},
-		{name: "csv duplicate header", csv: "x,x\n1,2\n", order: okOrder, wantErr: antecedent.ErrCSV, mention: "column 2"},
-		{name: "csv empty header", csv: "x,\n1,2\n", order: okOrder, wantErr: antecedent.ErrCSV, mention: "column 2"},
+		{name: "csv ragged row", csv: "x,y\n1,2\n3\n", order: okOrder, wantErr: table.ErrCSV, mention: "line 3"},
+		{name: "csv duplicate header", csv: "x,x\n1,2\n", order: okOrder, wantErr: table.ErrCSV, mention: "column 2"},
+		{name: "csv empty header", csv: "x,\n1,2\n", order: okOrder, wantErr: table.ErrCSV, mention: "column 2"},
 		{name: "csv byte-order mark", csv: "\ufeff" + csvOK, order: okOrder},
 		{name: "csv quoted newline in a name", csv: "\"x\",\"y\ny\"\n1,2\n3,4\n", order: "tier: x\ntier: \"y\ny\"\n", wantErr: order.ErrSyntax, mention: "line"},
-		{name: "csv non-numeric cell", csv: "x,y\n1,2\n2,abc\n3,4\n4,5\n", order: okOrder, wantErr: antecedent.ErrData, mention: "categorical"},
-		{name: "csv NaN cell", csv: strings.Replace(csvOK, "\n", "\nNaN,", 1)[:0] + "x,y\n1,NaN\n2,3\n", order: okOrder, wantErr: antecedent.ErrMissing, mention: `"y" has 1`},
-		{name: "csv Inf cell", csv: "x,y\n1,Inf\n", order: okOrder, wantErr: antecedent.ErrData, mention: "line 2"},
-		{name: "csv empty file", csv: "", order: okOrder, wantErr: antecedent.ErrCSV, mention: "empty file"},
-		{name: "csv header only", csv: "x,y\n", order: okOrder, wantErr: antecedent.ErrCSV, mention: "no data rows"},
-		{name: "csv 20,001 columns", csv: wide, order: okOrder, wantErr: antecedent.ErrCSV, mention: "more than the limit of 10000"},
+		{name: "csv non-numeric cell", csv: "x,y\n1,2\n2,abc\n3,4\n4,5\n", order: okOrder, wantErr: table.ErrData, mention: "categorical"},
+		{name: "csv NaN cell", csv: strings.Replace(csvOK, "\n", "\nNaN,", 1)[:0] + "x,y\n1,NaN\n2,3\n", order: okOrder, wantErr: table.ErrMissing, mention: `"y" has 1`},
+		{name: "csv Inf cell", csv: "x,y\n1,Inf\n", order: okOrder, wantErr: table.ErrData, mention: "line 2"},
+		{name: "csv empty file", csv: "", order: okOrder, wantErr: table.ErrCSV, mention: "empty file"},
+		{name: "csv header only", csv: "x,y\n", order: okOrder, wantErr: table.ErrCSV, mention: "no data rows"},
+		{name: "csv 20,001 columns", csv: wide, order: okOrder, wantErr: table.ErrCSV, mention: "more than the limit of 10000"},
 		{name: "csv too many text levels", csv: "x,y\n" + func() string {
 			var b strings.Builder
 			for i := range 80 {
 				fmt.Fprintf(&b, "level%d,%d\n", i, i)
 			}
 			return b.String()
-		}(), order: okOrder, wantErr: antecedent.ErrData, mention: "more than 50 distinct"},
+		}(), order: okOrder, wantErr: table.ErrData, mention: "more than 50 distinct"},
 		// Order files.
 		{name: "order unknown name", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: "tier: x ghost\ntier: y\n", wantErr: order.ErrInvalid, mention: `"ghost"`},
 		{name: "order duplicated name", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: "tier: x\ntier: y x\n", wantErr: order.ErrInvalid, mention: "placed twice"},
@@ -128,24 +131,24 @@ func badInputs() []badInput {
 			return b.String() + "\ntier: v39\n"
 		}(), cfg: &antecedent.Config{Folds: 5}, find: []string{"v0 -> v39"}},
 		{name: "single positive case", cols: [][]float64{x, column(n, 0, func(_ *rand.Rand, i int) float64 { return b2f(i == 7) })}, names: []string{"x", "rare"}, order: "tier: x\ntier: rare\n", mention: "rare"},
-		{name: "column all missing", cols: [][]float64{x, column(n, 0, func(*rand.Rand, int) float64 { return math.NaN() })}, names: []string{"x", "y"}, order: okOrder, wantErr: antecedent.ErrMissing, mention: `"y" has 200`},
-		{name: "column all missing, available case", cols: [][]float64{x, column(n, 0, func(*rand.Rand, int) float64 { return math.NaN() })}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Missing: antecedent.AvailableCase}, mention: "only 0 usable rows"},
-		{name: "missing values, complete case", cols: [][]float64{x, with(func(c []float64) { c[3] = math.NaN() })}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Missing: antecedent.CompleteCase}, mention: "199 of 200 rows"},
-		{name: "infinite value", cols: [][]float64{x, with(func(c []float64) { c[9] = math.Inf(-1) })}, names: []string{"x", "y"}, order: okOrder, wantErr: antecedent.ErrData, mention: "row 10"},
-		{name: "length mismatch", cols: [][]float64{x, y[:150]}, names: []string{"x", "y"}, order: okOrder, wantErr: antecedent.ErrData, mention: `"y" has 150 rows`},
-		{name: "empty name", cols: [][]float64{x, y}, names: []string{"x", " "}, order: okOrder, wantErr: antecedent.ErrData, mention: "empty name"},
-		{name: "duplicate name", cols: [][]float64{x, y}, names: []string{"x", "x"}, order: okOrder, wantErr: antecedent.ErrData, mention: "twice"},
-		{name: "too few rows", cols: [][]float64{x[:6], y[:6]}, names: []string{"x", "y"}, order: okOrder, wantErr: antecedent.ErrData, mention: "6 rows for 10 folds"},
+		{name: "column all missing", cols: [][]float64{x, column(n, 0, func(*rand.Rand, int) float64 { return math.NaN() })}, names: []string{"x", "y"}, order: okOrder, wantErr: table.ErrMissing, mention: `"y" has 200`},
+		{name: "column all missing, available case", cols: [][]float64{x, column(n, 0, func(*rand.Rand, int) float64 { return math.NaN() })}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Missing: table.AvailableCase}, mention: "only 0 usable rows"},
+		{name: "missing values, complete case", cols: [][]float64{x, with(func(c []float64) { c[3] = math.NaN() })}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Missing: table.CompleteCase}, mention: "199 of 200 rows"},
+		{name: "infinite value", cols: [][]float64{x, with(func(c []float64) { c[9] = math.Inf(-1) })}, names: []string{"x", "y"}, order: okOrder, wantErr: table.ErrData, mention: "row 10"},
+		{name: "length mismatch", cols: [][]float64{x, y[:150]}, names: []string{"x", "y"}, order: okOrder, wantErr: table.ErrData, mention: `"y" has 150 rows`},
+		{name: "empty name", cols: [][]float64{x, y}, names: []string{"x", " "}, order: okOrder, wantErr: table.ErrData, mention: "empty name"},
+		{name: "duplicate name", cols: [][]float64{x, y}, names: []string{"x", "x"}, order: okOrder, wantErr: table.ErrData, mention: "twice"},
+		{name: "too few rows", cols: [][]float64{x[:6], y[:6]}, names: []string{"x", "y"}, order: okOrder, wantErr: table.ErrData, mention: "6 rows for 10 folds"},
 		// Options.
 		{name: "zero folds means the default", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: 0}},
-		{name: "one fold", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: 1}, wantErr: antecedent.ErrConfig, mention: "1 folds"},
-		{name: "negative folds", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: -3}, wantErr: antecedent.ErrConfig, mention: "-3 folds"},
-		{name: "more folds than rows", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: 500}, wantErr: antecedent.ErrData, mention: "200 rows for 500 folds"},
-		{name: "threshold at one half", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Stability: antecedent.Stability{Pairs: 5, Threshold: 0.5}}, wantErr: antecedent.ErrConfig, mention: "threshold 0.5"},
-		{name: "threshold above one", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Stability: antecedent.Stability{Pairs: 5, Threshold: 1.2}}, wantErr: antecedent.ErrConfig, mention: "threshold 1.2"},
-		{name: "negative workers", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Workers: -1}, wantErr: antecedent.ErrConfig, mention: "-1 workers"},
-		{name: "mixing outside (0, 1]", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Mixing: 1.5}, wantErr: antecedent.ErrConfig, mention: "mixing"},
-		{name: "negative stability pairs", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Stability: antecedent.Stability{Pairs: -2}}, wantErr: antecedent.ErrConfig, mention: "-2 stability pairs"},
+		{name: "one fold", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: 1}, wantErr: antecedent.ErrConfig, mention: "Folds 1"},
+		{name: "negative folds", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: -3}, wantErr: antecedent.ErrConfig, mention: "Folds -3"},
+		{name: "more folds than rows", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Folds: 500}, wantErr: table.ErrData, mention: "200 rows for 500 folds"},
+		{name: "threshold at one half", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Stability: antecedent.Stability{Pairs: 5, Threshold: 0.5}}, wantErr: antecedent.ErrConfig, mention: "Threshold 0.5"},
+		{name: "threshold above one", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Stability: antecedent.Stability{Pairs: 5, Threshold: 1.2}}, wantErr: antecedent.ErrConfig, mention: "Threshold 1.2"},
+		{name: "negative workers", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Workers: -1}, wantErr: antecedent.ErrConfig, mention: "Workers -1"},
+		{name: "mixing outside (0, 1]", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{CV: cv.Settings{Path: lasso.Settings{Mixing: 1.5}}}, wantErr: antecedent.ErrConfig, mention: "Mixing"},
+		{name: "negative stability pairs", cols: [][]float64{x, y}, names: []string{"x", "y"}, order: okOrder, cfg: &antecedent.Config{Stability: antecedent.Stability{Pairs: -2}}, wantErr: antecedent.ErrConfig, mention: "Stability.Pairs -2"},
 	}
 }
 
@@ -212,11 +215,11 @@ func runCase(c badInput) (res *antecedent.Result, err error) {
 			err = fmt.Errorf("PANIC: %v", p)
 		}
 	}()
-	var d *antecedent.Dataset
+	var d *table.Dataset
 	if c.cols == nil {
-		d, err = antecedent.ReadCSV(strings.NewReader(c.csv), nil)
+		d, err = table.ReadCSV(strings.NewReader(c.csv), nil)
 	} else {
-		d, err = antecedent.NewDataset(c.names, c.cols)
+		d, err = table.NewDataset(c.names, c.cols)
 	}
 	if err != nil {
 		return nil, err

@@ -8,12 +8,24 @@ import (
 
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/internal/jsonfloat"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // Number is a float64 that is written to JSON as null when it is NaN or
 // infinite (unknown or undefined) and read back as NaN.
-type Number = dag.Number
+type Number float64
+
+// MarshalJSON implements json.Marshaler.
+func (x Number) MarshalJSON() ([]byte, error) { return jsonfloat.Marshal(float64(x)) }
+
+// UnmarshalJSON implements json.Unmarshaler.
+func (x *Number) UnmarshalJSON(b []byte) error {
+	f, err := jsonfloat.Unmarshal(b)
+	*x = Number(f)
+	return err
+}
 
 func nan() Number { return Number(math.NaN()) }
 
@@ -23,8 +35,11 @@ func nan() Number { return Number(math.NaN()) }
 type Result struct {
 	// Nodes holds one entry per variable, in the dataset's order.
 	Nodes []Node `json:"nodes"`
-	// Edges are the graph's directed edges, parent → child.
-	Edges []Edge `json:"edges"`
+	// Edges are the graph's directed edges, parent → child, with the
+	// refit effect of the parent (for a categorical parent, of its
+	// strongest level), its 95% interval and, under stability selection,
+	// its selection frequency.
+	Edges []dag.Edge `json:"edges"`
 	// Links are same-tier associations (Config.SameTier), undirected and
 	// outside the graph.
 	Links []Link `json:"links,omitempty"`
@@ -55,10 +70,11 @@ type Timings struct {
 
 // Node is the fit of one variable on its candidate parents.
 type Node struct {
-	Name   string `json:"name"`
-	Kind   Kind   `json:"kind"`
-	Family string `json:"family"`
-	Tier   int    `json:"tier"`
+	Name   string     `json:"name"`
+	Kind   table.Kind `json:"kind"`
+	Family string     `json:"family"`
+	// Tier is the node's tier, counted from 1 for the earliest.
+	Tier int `json:"tier"`
 	// TierLabel is the tier's label from the order, if any.
 	TierLabel string `json:"tier_label,omitempty"`
 	// Rows is the number of rows the node was fitted on.
@@ -148,22 +164,6 @@ type Effect struct {
 	Standardized Number `json:"standardized"`
 }
 
-// Edge is a directed edge of the discovered graph.
-type Edge struct {
-	From string `json:"from"`
-	To   string `json:"to"`
-	// Coefficient is the refit estimate (for a categorical parent, of its
-	// strongest level), Lower and Upper its 95% interval.
-	Coefficient  Number `json:"coefficient"`
-	Lower        Number `json:"lower"`
-	Upper        Number `json:"upper"`
-	Standardized Number `json:"standardized"`
-	// Frequency is the stability selection frequency (null when off).
-	Frequency Number `json:"frequency"`
-	Sign      int    `json:"sign"`
-	Required  bool   `json:"required,omitempty"`
-}
-
 // Link is an undirected same-tier association.
 type Link struct {
 	A string `json:"a"`
@@ -198,12 +198,7 @@ func (r *Result) Graph() (*dag.Graph, error) {
 	for i, n := range r.Nodes {
 		names[i] = n.Name
 	}
-	edges := make([]dag.Edge, len(r.Edges))
-	for k, e := range r.Edges {
-		edges[k] = dag.Edge{From: e.From, To: e.To, Coefficient: float64(e.Coefficient), Standardized: float64(e.Standardized),
-			Frequency: float64(e.Frequency), Sign: e.Sign, Required: e.Required}
-	}
-	return dag.New(names, edges)
+	return dag.New(names, r.Edges)
 }
 
 // Node returns the named node's result.
@@ -213,7 +208,7 @@ func (r *Result) Node(name string) (*Node, error) {
 			return &r.Nodes[i], nil
 		}
 	}
-	return nil, fmt.Errorf("%w: %q", ErrVariable, name)
+	return nil, fmt.Errorf("%w: %q", table.ErrVariable, name)
 }
 
 // WriteJSON writes the result as indented JSON.

@@ -14,13 +14,29 @@ import (
 // *Settings, gives the documented defaults.
 type Settings struct {
 	// Path configures every fit; its Penalties, when set, fix the grid.
-	Path lasso.Settings
+	Path lasso.Settings `json:"path"`
 	// Measure is the held-out measure. Zero means Deviance.
-	Measure Measure
+	Measure Measure `json:"measure"`
 	// Rule chooses the penalty. Zero means OneStandardError.
-	Rule Rule
+	Rule Rule `json:"rule"`
 	// Workers bounds the folds fitted at once. Zero means GOMAXPROCS.
-	Workers int
+	Workers int `json:"workers,omitempty"`
+}
+
+// Validate returns the error Fit would return for these settings, as far
+// as it can be known without data (a measure that does not suit the
+// response's family is found only by Fit). A nil *Settings is valid.
+func (s *Settings) Validate() error {
+	if s == nil {
+		return nil
+	}
+	if _, ok := measureNames[s.Measure]; !ok {
+		return fmt.Errorf("%w: unknown measure %d", ErrMeasure, int(s.Measure))
+	}
+	if _, _, err := resolveSettings(&Settings{Rule: s.Rule, Workers: s.Workers}); err != nil {
+		return err
+	}
+	return s.Path.Validate()
 }
 
 // Result is a cross-validated penalty path.

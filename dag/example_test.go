@@ -20,3 +20,12 @@ func ExampleGraph_MarkovBlanket() {
 	// Output:
 	// [season sprinkler wet]
 }
+
+func ExampleCompare() {
+	truth := []dag.Edge{dag.NewEdge("smoking", "cough"), dag.NewEdge("age", "smoking")}
+	est := []dag.Edge{dag.NewEdge("smoking", "cough"), dag.NewEdge("smoking", "age"), dag.NewEdge("age", "cough")}
+	s, _ := dag.Compare(est, truth)
+	fmt.Printf("precision %.2f recall %.2f SHD %d\n", s.Precision, s.Recall, s.SHD)
+	// Output:
+	// precision 0.33 recall 0.50 SHD 2
+}

@@ -12,6 +12,8 @@ import (
 	"strings"
 
 	"gonum.org/v1/gonum/graph/encoding/dot"
+
+	"github.com/antecedent-lab/antecedent/internal/jsonfloat"
 )
 
 // DOT returns the graph in Graphviz's DOT language, through gonum's
@@ -62,6 +64,8 @@ func (g *Graph) GraphML(w io.Writer) error {
 		Keys: []key{
 			{"name", "node", "name", "string"},
 			{"coefficient", "edge", "coefficient", "double"},
+			{"lower", "edge", "lower", "double"},
+			{"upper", "edge", "upper", "double"},
 			{"standardized", "edge", "standardized", "double"},
 			{"frequency", "edge", "frequency", "double"},
 			{"sign", "edge", "sign", "int"},
@@ -78,7 +82,7 @@ func (g *Graph) GraphML(w io.Writer) error {
 		for _, kv := range []struct {
 			k string
 			v float64
-		}{{"coefficient", e.Coefficient}, {"standardized", e.Standardized}, {"frequency", e.Frequency}} {
+		}{{"coefficient", e.Coefficient}, {"lower", e.Lower}, {"upper", e.Upper}, {"standardized", e.Standardized}, {"frequency", e.Frequency}} {
 			if !math.IsNaN(kv.v) && !math.IsInf(kv.v, 0) {
 				ed.Data = append(ed.Data, data{kv.k, num(kv.v)})
 			}
@@ -98,57 +102,52 @@ func (g *Graph) GraphML(w io.Writer) error {
 	return err
 }
 
-// Number is a float64 that encodes NaN and ±Inf as JSON null (and null as
-// NaN), so that unknown values survive a JSON round trip.
-type Number float64
-
-// MarshalJSON implements json.Marshaler.
-func (x Number) MarshalJSON() ([]byte, error) {
-	f := float64(x)
-	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return []byte("null"), nil
-	}
-	return json.Marshal(f)
+// jsonEdge is an Edge's JSON form: unknown attributes are null.
+type jsonEdge struct {
+	From         string          `json:"from"`
+	To           string          `json:"to"`
+	Coefficient  jsonfloat.Float `json:"coefficient"`
+	Lower        jsonfloat.Float `json:"lower"`
+	Upper        jsonfloat.Float `json:"upper"`
+	Standardized jsonfloat.Float `json:"standardized"`
+	Frequency    jsonfloat.Float `json:"frequency"`
+	Sign         int             `json:"sign"`
+	Required     bool            `json:"required,omitempty"`
 }
 
-// UnmarshalJSON implements json.Unmarshaler.
-func (x *Number) UnmarshalJSON(b []byte) error {
-	if string(b) == "null" {
-		*x = Number(math.NaN())
-		return nil
-	}
-	var f float64
-	if err := json.Unmarshal(b, &f); err != nil {
+// MarshalJSON writes the edge as an object with unknown attributes null.
+func (e Edge) MarshalJSON() ([]byte, error) {
+	return json.Marshal(jsonEdge{e.From, e.To, jsonfloat.Float(e.Coefficient), jsonfloat.Float(e.Lower), jsonfloat.Float(e.Upper),
+		jsonfloat.Float(e.Standardized), jsonfloat.Float(e.Frequency), e.Sign, e.Required})
+}
+
+// UnmarshalJSON reads the form MarshalJSON writes; a missing or null
+// attribute is unknown (NaN).
+func (e *Edge) UnmarshalJSON(b []byte) error {
+	nan := jsonfloat.Float(math.NaN())
+	j := jsonEdge{Coefficient: nan, Lower: nan, Upper: nan, Standardized: nan, Frequency: nan}
+	if err := json.Unmarshal(b, &j); err != nil {
 		return err
 	}
-	*x = Number(f)
+	*e = Edge{From: j.From, To: j.To, Coefficient: float64(j.Coefficient), Lower: float64(j.Lower), Upper: float64(j.Upper),
+		Standardized: float64(j.Standardized), Frequency: float64(j.Frequency), Sign: j.Sign, Required: j.Required}
 	return nil
 }
 
-type jsonEdge struct {
-	From         string `json:"from"`
-	To           string `json:"to"`
-	Coefficient  Number `json:"coefficient"`
-	Standardized Number `json:"standardized"`
-	Frequency    Number `json:"frequency"`
-	Sign         int    `json:"sign"`
-	Required     bool   `json:"required,omitempty"`
-}
-
 type jsonGraph struct {
-	Nodes []string   `json:"nodes"`
-	Edges []jsonEdge `json:"edges"`
+	Nodes []string `json:"nodes"`
+	Edges []Edge   `json:"edges"`
 }
 
 // MarshalJSON writes {"nodes": [...], "edges": [{"from", "to", ...}]},
 // unknown attributes as null.
 func (g *Graph) MarshalJSON() ([]byte, error) {
-	j := jsonGraph{Nodes: g.names, Edges: make([]jsonEdge, len(g.edges))}
+	j := jsonGraph{Nodes: g.names, Edges: g.edges}
 	if j.Nodes == nil {
 		j.Nodes = []string{}
 	}
-	for k, e := range g.edges {
-		j.Edges[k] = jsonEdge{e.From, e.To, Number(e.Coefficient), Number(e.Standardized), Number(e.Frequency), e.Sign, e.Required}
+	if j.Edges == nil {
+		j.Edges = []Edge{}
 	}
 	return json.Marshal(j)
 }
@@ -165,18 +164,15 @@ func (g *Graph) UnmarshalJSON(b []byte) error {
 	for _, n := range names {
 		seen[n] = true
 	}
-	edges := make([]Edge, len(j.Edges))
-	for k, e := range j.Edges {
+	for _, e := range j.Edges {
 		for _, n := range []string{e.From, e.To} {
 			if !seen[n] && n != "" {
 				seen[n] = true
 				names = append(names, n)
 			}
 		}
-		edges[k] = Edge{From: e.From, To: e.To, Coefficient: float64(e.Coefficient), Standardized: float64(e.Standardized),
-			Frequency: float64(e.Frequency), Sign: e.Sign, Required: e.Required}
 	}
-	ng, err := New(names, edges)
+	ng, err := New(names, j.Edges)
 	if err != nil {
 		return err
 	}

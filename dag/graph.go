@@ -22,12 +22,17 @@ var (
 )
 
 // Edge is a directed edge with the attributes a discovered network
-// carries. Attributes that were not computed are NaN.
+// carries. Attributes that were not computed are NaN. It is the one edge
+// type of the project: the discovery's result, the graph, its exports and
+// graph comparison all use it.
 type Edge struct {
 	From, To string
 	// Coefficient is the effect on the original scale of the variables
-	// (log odds per unit for a binary child).
+	// (log odds per unit for a binary child; for a categorical parent, the
+	// effect of its strongest level).
 	Coefficient float64
+	// Lower and Upper bound Coefficient's 95% confidence interval.
+	Lower, Upper float64
 	// Standardized is the effect per standard deviation of the parent
 	// (and of the child, for a continuous child).
 	Standardized float64
@@ -41,7 +46,8 @@ type Edge struct {
 
 // NewEdge returns an edge with every attribute unknown.
 func NewEdge(from, to string) Edge {
-	return Edge{From: from, To: to, Coefficient: math.NaN(), Standardized: math.NaN(), Frequency: math.NaN()}
+	nan := math.NaN()
+	return Edge{From: from, To: to, Coefficient: nan, Lower: nan, Upper: nan, Standardized: nan, Frequency: nan}
 }
 
 // Node is a node of a Graph; it implements graph.Node and dot.Node.

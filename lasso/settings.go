@@ -37,60 +37,60 @@ func (m Mode) String() string {
 // package.
 type Settings struct {
 	// Family is the loss. Nil means Gaussian{}.
-	Family Family
+	Family Family `json:"-"`
 
 	// Mixing is the share a of the L1 term in the penalty
 	// λ·Σ v_j·(a|b_j| + (1−a)/2·b_j²); it must lie in (0, 1].
 	// Zero means 1, the pure lasso.
-	Mixing float64
+	Mixing float64 `json:"mixing,omitempty"`
 
 	// PenaltyScale holds one factor v_j ≥ 0 per predictor, in the order
 	// of the predictors. A zero factor leaves that predictor unpenalised,
 	// so it is in every model. Nil means every factor is 1. Factors are
 	// used as given (they are not rescaled).
-	PenaltyScale []float64
+	PenaltyScale []float64 `json:"penalty_scale,omitempty"`
 
 	// NoIntercept fits without an intercept (and so without centring the
 	// predictors). The default fits an unpenalised intercept.
-	NoIntercept bool
+	NoIntercept bool `json:"no_intercept,omitempty"`
 
 	// NoStandardize penalises the coefficients on the predictors' own
 	// scales. By default each predictor is scaled internally to unit
 	// weighted standard deviation, so the penalty treats predictors alike;
 	// coefficients are always reported on the original scale.
-	NoStandardize bool
+	NoStandardize bool `json:"no_standardize,omitempty"`
 
 	// Penalties is a caller-given penalty sequence: positive and strictly
 	// decreasing. Nil means an automatic sequence.
-	Penalties []float64
+	Penalties []float64 `json:"penalties,omitempty"`
 
 	// NumPenalties is the length of the automatic sequence. Zero means 100.
-	NumPenalties int
+	NumPenalties int `json:"num_penalties,omitempty"`
 
 	// FloorRatio is the ratio of the smallest to the largest penalty of
 	// the automatic sequence, in (0, 1). Zero means 1e-3 when the rows
 	// outnumber the predictors and 1e-2 otherwise.
-	FloorRatio float64
+	FloorRatio float64 `json:"floor_ratio,omitempty"`
 
 	// Tolerance is the convergence threshold: iteration stops when the
 	// largest weighted squared coefficient change of a sweep falls below
 	// Tolerance times the null deviance per unit weight. Zero means 1e-7.
-	Tolerance float64
+	Tolerance float64 `json:"tolerance,omitempty"`
 
 	// MaxSweeps bounds the coordinate-descent sweeps spent on one
 	// penalty. Zero means 100,000.
-	MaxSweeps int
+	MaxSweeps int `json:"max_sweeps,omitempty"`
 
 	// MaxReweights bounds the outer reweighting iterations spent on one
 	// penalty by families other than Gaussian. Zero means 100.
-	MaxReweights int
+	MaxReweights int `json:"max_reweights,omitempty"`
 
 	// SaturationLimit ends the path once the deviance explained reaches
 	// it, as happens under perfect separation. Zero means 0.999.
-	SaturationLimit float64
+	SaturationLimit float64 `json:"saturation_limit,omitempty"`
 
 	// Mode chooses how Gaussian paths are computed. Zero means AutoMode.
-	Mode Mode
+	Mode Mode `json:"mode,omitempty"`
 }
 
 // resolved holds settings with defaults filled in.
@@ -194,3 +194,10 @@ func resolve(s *Settings, n, p int) (resolved, error) {
 }
 
 const maxFinite = 1.7976931348623157e308
+
+// Validate returns the error Fit would return for these settings, as far
+// as it can be known without data. A nil *Settings is valid.
+func (s *Settings) Validate() error {
+	_, err := resolve(s, 2, 1)
+	return err
+}

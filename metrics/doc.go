@@ -1,6 +1,6 @@
-// Package metrics scores predictions and estimated graphs.
+// Package metrics scores predictions.
 //
-// For predictions it gives the area under the ROC curve, the ROC curve's
+// It gives the area under the ROC curve, the ROC curve's
 // points, log-loss, binomial and Gaussian deviance, mean squared and mean
 // absolute error, the Brier score, the misclassification rate and R², each
 // with optional observation weights. The AUC is the Mann–Whitney statistic
@@ -11,12 +11,7 @@
 // computed in O(n log n) by sorting the scores once. HanleyMcNeilSE gives
 // the standard error of Hanley & McNeil (1982), Radiology 143:29–36.
 //
-// For graphs it compares an estimated edge list with a true one: directed
-// precision, recall and F1, skeleton precision and recall, and the
-// structural Hamming distance of Tsamardinos, Brown & Aliferis (2006),
-// Machine Learning 65:31–78, in its DAG form: missing + extra + reversed
-// edges, a reversed edge counted once. Edges are plain name pairs so this
-// package depends on no graph type.
+// Graphs are compared by package dag, next to the graph type.
 //
 // Inputs are never modified. Bad input (empty, mismatched lengths, NaN,
 // labels other than 0/1, one class only where two are needed) gives an

@@ -14,7 +14,6 @@ var (
 	ErrLabel     = errors.New("metrics: label is not 0 or 1")
 	ErrOneClass  = errors.New("metrics: only one class present")
 	ErrWeight    = errors.New("metrics: bad weight")
-	ErrEdge      = errors.New("metrics: bad edge")
 	ErrConstant  = errors.New("metrics: response is constant")
 )
 

@@ -18,12 +18,3 @@ func ExampleAUC() {
 	// Output:
 	// AUC 0.750
 }
-
-func ExampleCompareGraphs() {
-	truth := []metrics.Edge{{From: "smoking", To: "cough"}, {From: "age", To: "smoking"}}
-	est := []metrics.Edge{{From: "smoking", To: "cough"}, {From: "smoking", To: "age"}, {From: "age", To: "cough"}}
-	s, _ := metrics.CompareGraphs(est, truth)
-	fmt.Printf("precision %.2f recall %.2f SHD %d\n", s.Precision, s.Recall, s.SHD)
-	// Output:
-	// precision 0.33 recall 0.50 SHD 2
-}

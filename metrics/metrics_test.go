@@ -177,11 +177,6 @@ func TestErrors(t *testing.T) {
 		{"ROC one class", func() error { _, _, _, err := metrics.ROC([]float64{0, 1}, []float64{0, 0}, nil); return err }, metrics.ErrOneClass},
 		{"negative weight", func() error { _, err := metrics.Brier([]float64{0.5}, []float64{1}, []float64{-1}); return err }, metrics.ErrWeight},
 		{"constant R²", func() error { _, err := metrics.RSquared([]float64{1, 2}, []float64{3, 3}, nil); return err }, metrics.ErrConstant},
-		{"self-loop", func() error { _, err := metrics.CompareGraphs([]metrics.Edge{{"a", "a"}}, nil); return err }, metrics.ErrEdge},
-		{"both ways", func() error {
-			_, err := metrics.CompareGraphs(nil, []metrics.Edge{{"a", "b"}, {"b", "a"}})
-			return err
-		}, metrics.ErrEdge},
 	}
 	for _, c := range cases {
 		if err := c.f(); !errors.Is(err, c.want) {
@@ -212,45 +207,6 @@ func TestLosses(t *testing.T) {
 	// Zero weight removes a row.
 	if m, _ := metrics.MAE([]float64{1, 100}, []float64{2, 0}, []float64{1, 0}); m != 1 {
 		t.Errorf("MAE with a zero weight %g, want 1", m)
-	}
-}
-
-// TestCompareGraphs works the structural Hamming distance by hand in its
-// DAG form (Tsamardinos, Brown & Aliferis 2006; a reversal counted once,
-// common practice).
-func TestCompareGraphs(t *testing.T) {
-	truth := []metrics.Edge{{"a", "b"}, {"b", "c"}, {"c", "d"}, {"a", "d"}}
-	cases := []struct {
-		name                              string
-		est                               []metrics.Edge
-		correct, reversed, extra, missing int
-		shd                               int
-		precision, recall                 float64
-	}{
-		{"identical", truth, 4, 0, 0, 0, 0, 1, 1},
-		// b→a reversed (1), a→c extra (1), c→d and a→d missing (2): SHD 4.
-		{"mixed", []metrics.Edge{{"b", "a"}, {"b", "c"}, {"a", "c"}}, 1, 1, 1, 2, 4, 1.0 / 3, 0.25},
-		{"empty", nil, 0, 0, 0, 4, 4, math.NaN(), 0},
-		{"duplicates", []metrics.Edge{{"a", "b"}, {"a", "b"}}, 1, 0, 0, 3, 3, 1, 0.25},
-	}
-	for _, c := range cases {
-		s, err := metrics.CompareGraphs(c.est, truth)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if s.Correct != c.correct || s.Reversed != c.reversed || s.Extra != c.extra || s.Missing != c.missing || s.SHD != c.shd {
-			t.Errorf("%s: got %+v", c.name, s)
-		}
-		if !same(s.Precision, c.precision) || !same(s.Recall, c.recall) {
-			t.Errorf("%s: precision %g recall %g, want %g %g", c.name, s.Precision, s.Recall, c.precision, c.recall)
-		}
-	}
-	s, _ := metrics.CompareGraphs([]metrics.Edge{{"b", "a"}, {"b", "c"}, {"a", "c"}}, truth)
-	if s.SkeletonPrecision != 2.0/3 || s.SkeletonRecall != 0.5 {
-		t.Errorf("skeleton precision %g recall %g, want 2/3 and 1/2", s.SkeletonPrecision, s.SkeletonRecall)
-	}
-	if f := 2 * (1.0 / 3) * 0.25 / (1.0/3 + 0.25); math.Abs(s.F1-f) > 1e-15 {
-		t.Errorf("F1 %g, want %g", s.F1, f)
 	}
 }
 

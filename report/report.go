@@ -13,7 +13,6 @@ import (
 
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/dag"
-	"github.com/antecedent-lab/antecedent/metrics"
 )
 
 //go:embed report.html.tmpl
@@ -154,7 +153,7 @@ type summary struct {
 	Mixing                                float64
 	Stability                             *antecedent.StabilityReport
 	Timings                               antecedent.Timings
-	Truth                                 *metrics.GraphScore
+	Truth                                 *dag.Comparison
 	TruthEdges                            int
 	Warnings                              []string
 }
@@ -175,7 +174,10 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 	}
 	tier := make([]int, len(res.Nodes))
 	for i, n := range res.Nodes {
-		tier[i] = n.Tier
+		if n.Tier < 1 {
+			return nil, fmt.Errorf("report: node %q has tier %d; tiers are counted from 1", n.Name, n.Tier)
+		}
+		tier[i] = n.Tier - 1 // the layout's columns count from 0
 	}
 	var pairs [][2]int
 	for _, e := range res.Edges {
@@ -280,7 +282,7 @@ func clamp01(x float64) float64 {
 	return math.Max(0, math.Min(1, x))
 }
 
-func edgeTitle(e antecedent.Edge) string {
+func edgeTitle(e dag.Edge) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s → %s", e.From, e.To)
 	if c := float64(e.Coefficient); finite(c) {
@@ -439,25 +441,25 @@ func pathChart(n *antecedent.Node) *chart {
 
 func summarise(res *antecedent.Result, o *Options) summary {
 	s := summary{Variables: len(res.Nodes), Rows: res.Rows, Edges: len(res.Edges), Folds: res.Config.Folds,
-		Rule: res.Config.Rule.String(), Measure: res.Config.Measure.String(), Seed: res.Config.Seed, Mixing: res.Config.Mixing,
+		Rule: res.Config.CV.Rule.String(), Measure: res.Config.CV.Measure.String(), Seed: res.Config.Seed, Mixing: res.Config.CV.Path.Mixing,
 		Stability: res.Stability, Timings: res.Timings, Warnings: res.Warnings}
+	if s.Mixing == 0 {
+		s.Mixing = 1 // lasso.Settings: zero means the pure lasso
+	}
 	if res.Order != nil {
 		s.Tiers = len(res.Order.Tiers)
 	}
 	for _, n := range res.Nodes {
 		if n.Fitted {
+			if s.Fitted == 0 {
+				s.Rule, s.Measure = n.Rule.String(), n.Measure.String()
+			}
 			s.Fitted++
 		}
 	}
 	if o.Truth != nil {
-		var est, tru []metrics.Edge
-		for _, e := range res.Edges {
-			est = append(est, metrics.Edge{From: e.From, To: e.To})
-		}
-		for _, e := range o.Truth.Edges() {
-			tru = append(tru, metrics.Edge{From: e.From, To: e.To})
-		}
-		if sc, err := metrics.CompareGraphs(est, tru); err == nil {
+		tru := o.Truth.Edges()
+		if sc, err := dag.Compare(res.Edges, tru); err == nil {
 			s.Truth = &sc
 			s.TruthEdges = len(tru)
 		}

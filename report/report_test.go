@@ -15,9 +15,11 @@ import (
 	"time"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/demo"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/report"
 	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 var (
@@ -30,7 +32,7 @@ var (
 func demoReport(t *testing.T) ([]byte, *antecedent.Result) {
 	t.Helper()
 	demoOnce.Do(func() {
-		d, o, g, err := antecedent.Demo()
+		d, o, g, err := demo.Load()
 		if err != nil {
 			demoErr = err
 			return
@@ -99,7 +101,7 @@ func hostileResult(t *testing.T) *antecedent.Result {
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, err := antecedent.NewDataset(s.Names, s.Columns)
+	d, err := table.NewDataset(s.Names, s.Columns)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -37,6 +37,7 @@ import (
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 type benchCase struct {
@@ -155,7 +156,7 @@ func runChild(path string, n, p int, orderPath, out, profile string) error {
 	if err != nil {
 		return err
 	}
-	d, err := antecedent.NewDataset(names, cols)
+	d, err := table.NewDataset(names, cols)
 	if err != nil {
 		return err
 	}
@@ -324,7 +325,7 @@ func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Samp
 		if !nd.Fitted {
 			continue
 		}
-		sn := specNode{Index: i, Slot: len(nodes), Binary: nd.Kind == antecedent.Binary}
+		sn := specNode{Index: i, Slot: len(nodes), Binary: nd.Kind == table.Binary}
 		for _, cand := range nd.Candidates {
 			sn.Candidates = append(sn.Candidates, index[cand])
 		}

@@ -10,7 +10,6 @@ import (
 
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/dag"
-	"github.com/antecedent-lab/antecedent/metrics"
 )
 
 func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) error {
@@ -31,7 +30,7 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 	if err != nil {
 		return err
 	}
-	s, err := metrics.CompareGraphs(est, tru)
+	s, err := dag.Compare(est, tru)
 	if err != nil {
 		return err
 	}
@@ -43,36 +42,26 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 }
 
 // readEdges reads edges from a result JSON, a graph JSON or an edge-list CSV.
-func readEdges(path string) ([]metrics.Edge, error) {
+func readEdges(path string) ([]dag.Edge, error) {
 	b, err := os.ReadFile(path)
 	if err != nil {
 		return nil, err
 	}
-	var out []metrics.Edge
 	if t := bytes.TrimSpace(b); len(t) > 0 && t[0] == '{' {
 		if strings.Contains(string(t[:min(len(t), 1<<16)]), `"nodes": [`) || bytes.Contains(t, []byte(`"config"`)) {
 			if res, err := antecedent.ReadResult(bytes.NewReader(b)); err == nil {
-				for _, e := range res.Edges {
-					out = append(out, metrics.Edge{From: e.From, To: e.To})
-				}
-				return out, nil
+				return res.Edges, nil
 			}
 		}
 		g, err := dag.ReadJSON(bytes.NewReader(b))
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", path, err)
 		}
-		for _, e := range g.Edges() {
-			out = append(out, metrics.Edge{From: e.From, To: e.To})
-		}
-		return out, nil
+		return g.Edges(), nil
 	}
 	g, err := dag.ReadEdgeCSV(bytes.NewReader(b))
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	for _, e := range g.Edges() {
-		out = append(out, metrics.Edge{From: e.From, To: e.To})
-	}
-	return out, nil
+	return g.Edges(), nil
 }

@@ -7,7 +7,7 @@ import (
 	"os"
 	"path/filepath"
 
-	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/demo"
 	"github.com/antecedent-lab/antecedent/report"
 )
 
@@ -23,7 +23,7 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if err != nil {
 		return err
 	}
-	d, o, truth, err := antecedent.Demo()
+	d, o, truth, err := demo.Load()
 	if err != nil {
 		return err
 	}

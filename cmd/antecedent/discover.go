@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -13,6 +14,7 @@ import (
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/report"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // settings are the options shared by demo and discover.
@@ -50,39 +52,40 @@ func (s *settings) register(fs *flag.FlagSet) {
 	fs.StringVar(&s.report, "report", "", "write a self-contained HTML report to this file")
 }
 
+// config maps the flags onto a Config and lets the Config check them; a
+// value it refuses is a usage error.
 func (s *settings) config() (*antecedent.Config, error) {
-	c := &antecedent.Config{Folds: s.folds, Seed: s.seed, Workers: s.workers, SameTier: s.sameTier}
+	c := &antecedent.Config{Folds: s.folds, Seed: s.seed, Workers: s.workers, SameTier: s.sameTier,
+		Stability: antecedent.Stability{Pairs: s.pairs, Threshold: s.threshold}}
 	var err error
-	if c.Rule, err = cv.ParseRule(s.rule); err != nil {
-		return nil, usageError{err.Error()}
+	if c.CV.Rule, err = cv.ParseRule(s.rule); err != nil {
+		return nil, usageError{"--rule: " + err.Error()}
 	}
-	if c.Measure, err = cv.ParseMeasure(s.measure); err != nil {
-		return nil, usageError{err.Error()}
+	if c.CV.Measure, err = cv.ParseMeasure(s.measure); err != nil {
+		return nil, usageError{"--measure: " + err.Error()}
 	}
 	if err := c.Missing.UnmarshalText([]byte(s.missing)); err != nil {
-		return nil, usageError{err.Error()}
+		return nil, usageError{"--missing: " + err.Error()}
 	}
-	if s.folds < 2 {
-		return nil, usageError{fmt.Sprintf("--folds %d: need at least 2", s.folds)}
-	}
-	if s.workers < 0 {
-		return nil, usageError{fmt.Sprintf("--workers %d: must be 0 or more", s.workers)}
-	}
-	if s.pairs < 0 {
-		return nil, usageError{fmt.Sprintf("--stability-pairs %d: must be 0 or more", s.pairs)}
-	}
-	if s.pairs > 0 {
-		if !(s.threshold > 0.5 && s.threshold <= 1) {
-			return nil, usageError{fmt.Sprintf("--stability-threshold %g: must be in (0.5, 1]", s.threshold)}
+	if err := c.Validate(); err != nil {
+		var ce *antecedent.ConfigError
+		if errors.As(err, &ce) && flagOf[ce.Field] != "" {
+			return nil, usageError{fmt.Sprintf("%s %s: %s", flagOf[ce.Field], ce.Value, ce.Reason)}
 		}
-		c.Stability = antecedent.Stability{Pairs: s.pairs, Threshold: s.threshold}
+		return nil, usageError{err.Error()}
 	}
 	return c, nil
 }
 
+// flagOf names the flag that sets a Config field.
+var flagOf = map[string]string{
+	"Folds": "--folds", "Workers": "--workers",
+	"Stability.Pairs": "--stability-pairs", "Stability.Threshold": "--stability-threshold",
+}
+
 // discover runs Discover with a progress bar on stderr when it is a
 // terminal and output is not quiet.
-func (s *settings) discover(ctx context.Context, d *antecedent.Dataset, o *order.Order, cfg *antecedent.Config, stderr io.Writer) (*antecedent.Result, error) {
+func (s *settings) discover(ctx context.Context, d *table.Dataset, o *order.Order, cfg *antecedent.Config, stderr io.Writer) (*antecedent.Result, error) {
 	if !s.quiet && isTerminal(stderr) {
 		bar := newProgressBar(stderr)
 		cfg.Progress = bar.update
@@ -185,13 +188,13 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	return nil
 }
 
-func readData(path string) (*antecedent.Dataset, error) {
+func readData(path string) (*table.Dataset, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	d, err := antecedent.ReadCSV(f, nil)
+	d, err := table.ReadCSV(f, nil)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}

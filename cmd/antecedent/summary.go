@@ -7,8 +7,9 @@ import (
 	"strings"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
-	"github.com/antecedent-lab/antecedent/metrics"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 const caution = `Caution: this network is a hypothesis drawn from observational data. Unmeasured
@@ -29,12 +30,17 @@ func num(x antecedent.Number, digits int) string {
 func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 	tiers := res.Order.Tiers
 	fmt.Fprintf(w, "antecedent: %d variables, %d rows, %d tiers, %d edges\n", len(res.Nodes), res.Rows, len(tiers), len(res.Edges))
-	rule := "one-standard-error rule"
-	if res.Config.Rule.String() == "minimum" {
-		rule = "minimum-loss rule"
+	for _, n := range res.Nodes {
+		if n.Fitted {
+			rule := "one-standard-error rule"
+			if n.Rule == cv.MinimumLoss {
+				rule = "minimum-loss rule"
+			}
+			fmt.Fprintf(w, "Each penalty chosen by %d-fold cross-validation (%s, %s); seed %d; %.1f s.\n",
+				res.Config.Folds, n.Measure, rule, res.Config.Seed, res.Timings.Total)
+			break
+		}
 	}
-	fmt.Fprintf(w, "Each penalty chosen by %d-fold cross-validation (%s, %s); seed %d; %.1f s.\n",
-		res.Config.Folds, res.Config.Measure, rule, res.Config.Seed, res.Timings.Total)
 	width := 0
 	for _, n := range res.Nodes {
 		width = max(width, len([]rune(n.Name)))
@@ -68,21 +74,15 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 		}
 	}
 	if truth != nil {
-		var est, tru []metrics.Edge
-		for _, e := range res.Edges {
-			est = append(est, metrics.Edge{From: e.From, To: e.To})
-		}
-		for _, e := range truth.Edges() {
-			tru = append(tru, metrics.Edge{From: e.From, To: e.To})
-		}
-		if s, err := metrics.CompareGraphs(est, tru); err == nil {
+		est, tru := res.Edges, truth.Edges()
+		if s, err := dag.Compare(est, tru); err == nil {
 			fmt.Fprintf(w, "\nAgainst the known true graph (%d edges): precision %.2f, recall %.2f, F1 %.2f, structural Hamming distance %d.\n",
 				len(tru), s.Precision, s.Recall, s.F1, s.SHD)
 			var missing []string
 			for _, e := range tru {
 				found := false
 				for _, f := range est {
-					if f == e || (f.From == e.To && f.To == e.From) {
+					if (f.From == e.From && f.To == e.To) || (f.From == e.To && f.To == e.From) {
 						found = true
 					}
 				}
@@ -133,7 +133,7 @@ func writeNode(w io.Writer, res *antecedent.Result, n *antecedent.Node, width in
 				effect = fmt.Sprintf("odds ratio %s [%s, %s]", num(e.OddsRatio, 2), num(e.OddsLower, 2), num(e.OddsUpper, 2))
 			} else {
 				unit := "per unit"
-				if pn, err := res.Node(p); err == nil && pn.Kind == antecedent.Binary {
+				if pn, err := res.Node(p); err == nil && pn.Kind == table.Binary {
 					unit = "if present"
 				}
 				effect = fmt.Sprintf("%+.3g %s [%s, %s]", float64(e.Estimate), unit, num(e.Lower, 3), num(e.Upper, 3))

@@ -17,6 +17,7 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/lasso"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // Poisson is the loss for counts with the log link, mean exp(eta).
@@ -102,15 +103,13 @@ func run(ctx context.Context) (*lasso.Path, error) {
 func discover(ctx context.Context) (*antecedent.Result, error) {
 	x, y, _ := simulateVisits(2000, 8, 12)
 	names := []string{"x1", "x2", "x3", "x4", "x5", "x6", "x7", "x8", "visits"}
-	d, err := antecedent.NewDataset(names, append(x, y))
+	d, err := table.NewDataset(names, append(x, y))
 	if err != nil {
 		return nil, err
 	}
-	if err := d.SetFamily("visits", Poisson{}); err != nil {
-		return nil, err
-	}
 	o := &order.Order{Tiers: [][]string{names[:8], {"visits"}}}
-	return antecedent.DiscoverContext(ctx, d, o, &antecedent.Config{Seed: 3})
+	cfg := &antecedent.Config{Seed: 3, Families: map[string]lasso.Family{"visits": Poisson{}}}
+	return antecedent.DiscoverContext(ctx, d, o, cfg)
 }
 
 func main() {

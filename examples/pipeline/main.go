@@ -17,6 +17,7 @@ import (
 
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 func run(ctx context.Context, dataPath, orderPath, outDir string, seed uint64) (*antecedent.Result, error) {
@@ -25,7 +26,7 @@ func run(ctx context.Context, dataPath, orderPath, outDir string, seed uint64) (
 		return nil, err
 	}
 	defer df.Close()
-	d, err := antecedent.ReadCSV(df, nil)
+	d, err := table.ReadCSV(df, nil)
 	if err != nil {
 		return nil, err
 	}
@@ -80,7 +81,7 @@ func run(ctx context.Context, dataPath, orderPath, outDir string, seed uint64) (
 	}
 	w := csv.NewWriter(ef)
 	w.Write([]string{"from", "to", "coefficient", "lower", "upper", "standardized"})
-	f := func(x antecedent.Number) string { return strconv.FormatFloat(float64(x), 'g', 6, 64) }
+	f := func(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
 	for _, e := range res.Edges {
 		w.Write([]string{e.From, e.To, f(e.Coefficient), f(e.Lower), f(e.Upper), f(e.Standardized)})
 	}

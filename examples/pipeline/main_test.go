@@ -7,15 +7,15 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/demo"
 )
 
 func TestPipeline(t *testing.T) {
 	dir := t.TempDir()
-	data, _ := antecedent.DemoFile("joint_replacement.csv")
+	data, _ := demo.File("joint_replacement.csv")
 	lines := strings.SplitAfterN(string(data), "\n", 1502)
 	os.WriteFile(filepath.Join(dir, "d.csv"), []byte(strings.Join(lines[:1501], "")), 0o644)
-	ord, _ := antecedent.DemoFile("joint_replacement.order")
+	ord, _ := demo.File("joint_replacement.order")
 	os.WriteFile(filepath.Join(dir, "o.txt"), ord, 0o644)
 	out := filepath.Join(dir, "out")
 	res, err := run(context.Background(), filepath.Join(dir, "d.csv"), filepath.Join(dir, "o.txt"), out, 1)

@@ -21,6 +21,7 @@ import (
 
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // Limits bound what one request may ask of the service.
@@ -54,7 +55,7 @@ func Handler(lim Limits) http.Handler {
 			return
 		}
 		defer dataFile.Close()
-		d, err := antecedent.ReadCSV(dataFile, &antecedent.CSVOptions{MaxRows: lim.MaxRows})
+		d, err := table.ReadCSV(dataFile, &table.CSVOptions{MaxRows: lim.MaxRows})
 		if err != nil {
 			httpError(w, http.StatusUnprocessableEntity, err.Error())
 			return

@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/demo"
 )
 
 func upload(t *testing.T, data, ord []byte) (*bytes.Buffer, string) {
@@ -27,12 +28,12 @@ func upload(t *testing.T, data, ord []byte) (*bytes.Buffer, string) {
 	return &body, mw.FormDataContentType()
 }
 
-func demo(t *testing.T) ([]byte, []byte) {
-	data, err := antecedent.DemoFile("joint_replacement.csv")
+func demoFiles(t *testing.T) ([]byte, []byte) {
+	data, err := demo.File("joint_replacement.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
-	ord, err := antecedent.DemoFile("joint_replacement.order")
+	ord, err := demo.File("joint_replacement.order")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -42,7 +43,7 @@ func demo(t *testing.T) ([]byte, []byte) {
 }
 
 func TestDiscoverEndpoint(t *testing.T) {
-	data, ord := demo(t)
+	data, ord := demoFiles(t)
 	srv := httptest.NewServer(Handler(Limits{MaxBytes: 8 << 20, MaxTime: time.Minute, Workers: 2}))
 	defer srv.Close()
 	body, ctype := upload(t, data, ord)
@@ -64,7 +65,7 @@ func TestDiscoverEndpoint(t *testing.T) {
 }
 
 func TestLimits(t *testing.T) {
-	data, ord := demo(t)
+	data, ord := demoFiles(t)
 	cases := []struct {
 		name string
 		lim  Limits

@@ -1,4 +1,9 @@
-package antecedent
+// Package demo is the shipped demonstration study: a synthetic study of
+// recovery after joint replacement (5,000 patients, 18 variables in six
+// tiers), drawn by package simulate from a known network. The data are
+// synthetic and describe no real patients. The library never imports this
+// package; the command-line tool, the examples and the tests do.
+package demo
 
 import (
 	"bytes"
@@ -11,25 +16,26 @@ import (
 	"github.com/antecedent-lab/antecedent/dag"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // The demonstration scenario: a hospital network's study of recovery after
 // joint replacement. The data are synthetic, drawn by package simulate from
-// DemoModel with DemoSeed; nothing in them describes real patients.
+// Model with Seed; nothing in them describes real patients.
 const (
-	DemoSeed = 20261202
-	DemoRows = 5000
+	Seed = 20261202
+	Rows = 5000
 )
 
-//go:embed testdata/demo
-var demoFiles embed.FS
+//go:embed testdata
+var files embed.FS
 
-// DemoModel returns the known graph behind the demonstration data: 18
+// Model returns the known graph behind the demonstration data: 18
 // variables in six tiers (patient traits, baseline conditions, surgical
 // choices, in-hospital complications, discharge, outcomes after discharge). Effects are on natural
 // scales: years, kg/m², g/dL, minutes, days, and log odds for binary
 // variables.
-func DemoModel() *simulate.Model {
+func Model() *simulate.Model {
 	p := func(names ...string) []string { return names }
 	w := func(ws ...float64) []float64 { return ws }
 	return &simulate.Model{Nodes: []simulate.Node{
@@ -58,8 +64,8 @@ func DemoModel() *simulate.Model {
 	}}
 }
 
-// DemoOrder returns the time order of the demonstration scenario.
-func DemoOrder() *order.Order {
+// Order returns the time order of the demonstration scenario.
+func Order() *order.Order {
 	return &order.Order{
 		Labels: []string{"traits", "baseline", "surgery", "in-hospital", "discharge", "outcomes"},
 		Tiers: [][]string{
@@ -73,17 +79,17 @@ func DemoOrder() *order.Order {
 	}
 }
 
-// WriteDemoFiles writes the demonstration data (CSV), order (text form)
-// and known graph (edge-list CSV) drawn from DemoModel with DemoSeed.
-func WriteDemoFiles(data, orderText, truth io.Writer) error {
-	m := DemoModel()
-	s, err := m.Sample(DemoRows, DemoSeed)
+// WriteFiles writes the demonstration data (CSV), order (text form) and
+// known graph (edge-list CSV) drawn from Model with Seed.
+func WriteFiles(data, orderText, truth io.Writer) error {
+	m := Model()
+	s, err := m.Sample(Rows, Seed)
 	if err != nil {
 		return err
 	}
 	var b strings.Builder
 	b.WriteString(strings.Join(s.Names, ",") + "\n")
-	for i := range DemoRows {
+	for i := range Rows {
 		for j, c := range s.Columns {
 			if j > 0 {
 				b.WriteByte(',')
@@ -102,7 +108,7 @@ func WriteDemoFiles(data, orderText, truth io.Writer) error {
 	if _, err := io.WriteString(orderText, "# Demonstration order: synthetic joint-replacement study (antecedent).\n"); err != nil {
 		return err
 	}
-	if err := DemoOrder().WriteText(orderText); err != nil {
+	if err := Order().WriteText(orderText); err != nil {
 		return err
 	}
 	g, err := m.Graph()
@@ -116,18 +122,18 @@ func WriteDemoFiles(data, orderText, truth io.Writer) error {
 	return nil
 }
 
-// Demo returns the demonstration dataset, its order and its known graph,
+// Load returns the demonstration dataset, its order and its known graph,
 // from the copies embedded in the package. The data are synthetic.
-func Demo() (*Dataset, *order.Order, *dag.Graph, error) {
-	data, err := demoFiles.ReadFile("testdata/demo/joint_replacement.csv")
+func Load() (*table.Dataset, *order.Order, *dag.Graph, error) {
+	data, err := File("joint_replacement.csv")
 	if err != nil {
 		return nil, nil, nil, err
 	}
-	d, err := ReadCSV(bytes.NewReader(data), nil)
+	d, err := table.ReadCSV(bytes.NewReader(data), nil)
 	if err != nil {
 		return nil, nil, nil, err
 	}
-	ot, err := demoFiles.ReadFile("testdata/demo/joint_replacement.order")
+	ot, err := File("joint_replacement.order")
 	if err != nil {
 		return nil, nil, nil, err
 	}
@@ -135,7 +141,7 @@ func Demo() (*Dataset, *order.Order, *dag.Graph, error) {
 	if err != nil {
 		return nil, nil, nil, err
 	}
-	tr, err := demoFiles.ReadFile("testdata/demo/joint_replacement_truth.csv")
+	tr, err := File("joint_replacement_truth.csv")
 	if err != nil {
 		return nil, nil, nil, err
 	}
@@ -146,9 +152,9 @@ func Demo() (*Dataset, *order.Order, *dag.Graph, error) {
 	return d, o, g, nil
 }
 
-// DemoFile returns an embedded demonstration file by base name
+// File returns an embedded demonstration file by base name
 // ("joint_replacement.csv", "joint_replacement.order",
 // "joint_replacement_truth.csv").
-func DemoFile(name string) ([]byte, error) {
-	return demoFiles.ReadFile("testdata/demo/" + name)
+func File(name string) ([]byte, error) {
+	return files.ReadFile("testdata/" + name)
 }

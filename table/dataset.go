@@ -1,4 +1,4 @@
-package antecedent
+package table
 
 import (
 	"errors"
@@ -6,8 +6,6 @@ import (
 	"math"
 	"slices"
 	"strings"
-
-	"github.com/antecedent-lab/antecedent/lasso"
 )
 
 // Kind is how a variable is measured.
@@ -42,7 +40,7 @@ func (k Kind) MarshalText() ([]byte, error) { return []byte(k.String()), nil }
 func (k *Kind) UnmarshalText(b []byte) error {
 	i := slices.Index(kindNames, string(b))
 	if i < 0 {
-		return fmt.Errorf("antecedent: unknown kind %q", b)
+		return fmt.Errorf("table: unknown kind %q", b)
 	}
 	*k = Kind(i)
 	return nil
@@ -50,10 +48,10 @@ func (k *Kind) UnmarshalText(b []byte) error {
 
 // Sentinel errors that callers can test with errors.Is.
 var (
-	ErrData     = errors.New("antecedent: bad data")
-	ErrMissing  = errors.New("antecedent: missing values")
-	ErrVariable = errors.New("antecedent: unknown variable")
-	ErrConfig   = errors.New("antecedent: bad configuration")
+	ErrData     = errors.New("table: bad data")
+	ErrMissing  = errors.New("table: missing values")
+	ErrVariable = errors.New("table: unknown variable")
+	ErrCSV      = errors.New("table: bad CSV")
 )
 
 // Variable describes one variable of a Dataset.
@@ -63,9 +61,6 @@ type Variable struct {
 	// Levels holds a categorical variable's levels, reference first, or
 	// a binary text variable's two levels (the second is coded 1).
 	Levels []string
-	// Family, when set, is the loss used when the variable is a response,
-	// overriding the one its kind implies.
-	Family lasso.Family
 }
 
 // Dataset is a table of named variables stored column-major. Numeric
@@ -277,24 +272,17 @@ func (d *Dataset) SetKind(name string, k Kind) error {
 	return nil
 }
 
-// SetFamily attaches a custom loss used when the variable is a response
-// (nil restores the kind's default). The family's CheckResponse is applied
-// to the variable's values when it is fitted.
-func (d *Dataset) SetFamily(name string, f lasso.Family) error {
-	i, err := d.lookup(name)
-	if err != nil {
-		return err
-	}
-	if d.vars[i].Kind == Categorical && f != nil {
-		return fmt.Errorf("%w: %q is categorical and cannot take a family", ErrData, name)
-	}
-	d.vars[i].Family = f
-	return nil
-}
+// Columns returns the design columns, shared with the dataset: one per
+// numeric variable and one indicator per non-reference level of a
+// categorical variable, in variable order. Do not change them.
+func (d *Dataset) Columns() [][]float64 { return d.cols }
 
-// termName returns the name of design column c: the variable's name, or
+// Terms returns the indices in Columns of variable v's design columns.
+func (d *Dataset) Terms(v int) []int { return slices.Clone(d.varCols[v]) }
+
+// TermName returns the name of design column c: the variable's name, or
 // "variable=level" for an indicator.
-func (d *Dataset) termName(c int) string {
+func (d *Dataset) TermName(c int) string {
 	vi := d.colVar[c]
 	v := d.vars[vi]
 	if v.Kind != Categorical {

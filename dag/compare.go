@@ -1,17 +1,12 @@
-package metrics
+package dag
 
 import (
 	"fmt"
 	"math"
 )
 
-// Edge is a directed edge between two named nodes.
-type Edge struct {
-	From, To string
-}
-
-// GraphScore compares an estimated directed graph with a true one.
-type GraphScore struct {
+// Comparison scores an estimated directed graph against a true one.
+type Comparison struct {
 	// Correct counts estimated edges present in the truth with the same
 	// direction; Reversed those present in the opposite direction; Extra
 	// those absent from the truth in either direction; Missing the true
@@ -29,31 +24,35 @@ type GraphScore struct {
 	SHD int
 }
 
-// CompareGraphs scores estimated edges against true ones. Duplicate edges
-// are counted once; a self-loop or an empty name is an error, as is a pair
-// of nodes joined in both directions within one graph.
-func CompareGraphs(estimated, truth []Edge) (GraphScore, error) {
+// Compare scores estimated edges against true ones by their end points
+// (other attributes are ignored). Duplicate edges are counted once; a
+// self-loop or an empty name is an error, as is a pair of nodes joined in
+// both directions within one list.
+//
+// SHD is the structural Hamming distance of Tsamardinos, Brown & Aliferis
+// (2006), Machine Learning 65:31–78, in its DAG form.
+func Compare(estimated, truth []Edge) (Comparison, error) {
 	est, err := edgeSet(estimated, "estimated")
 	if err != nil {
-		return GraphScore{}, err
+		return Comparison{}, err
 	}
 	tru, err := edgeSet(truth, "true")
 	if err != nil {
-		return GraphScore{}, err
+		return Comparison{}, err
 	}
-	var s GraphScore
+	var s Comparison
 	for e := range est {
 		switch {
 		case tru[e]:
 			s.Correct++
-		case tru[Edge{e.To, e.From}]:
+		case tru[pair{e.to, e.from}]:
 			s.Reversed++
 		default:
 			s.Extra++
 		}
 	}
 	for e := range tru {
-		if !est[e] && !est[Edge{e.To, e.From}] {
+		if !est[e] && !est[pair{e.to, e.from}] {
 			s.Missing++
 		}
 	}
@@ -78,17 +77,21 @@ func ratio(a, b int) float64 {
 	return float64(a) / float64(b)
 }
 
-func edgeSet(edges []Edge, which string) (map[Edge]bool, error) {
-	set := make(map[Edge]bool, len(edges))
-	for i, e := range edges {
-		if e.From == "" || e.To == "" {
+// pair is an edge's end points.
+type pair struct{ from, to string }
+
+func edgeSet(edges []Edge, which string) (map[pair]bool, error) {
+	set := make(map[pair]bool, len(edges))
+	for i, edge := range edges {
+		e := pair{edge.From, edge.To}
+		if e.from == "" || e.to == "" {
 			return nil, fmt.Errorf("%w: %s edge %d has an empty name", ErrEdge, which, i)
 		}
-		if e.From == e.To {
-			return nil, fmt.Errorf("%w: %s edge %d is a self-loop on %q", ErrEdge, which, i, e.From)
+		if e.from == e.to {
+			return nil, fmt.Errorf("%w: %s edge %d is a self-loop on %q", ErrEdge, which, i, e.from)
 		}
-		if set[Edge{e.To, e.From}] {
-			return nil, fmt.Errorf("%w: %s edges join %q and %q in both directions", ErrEdge, which, e.From, e.To)
+		if set[pair{e.to, e.from}] {
+			return nil, fmt.Errorf("%w: %s edges join %q and %q in both directions", ErrEdge, which, e.from, e.to)
 		}
 		set[e] = true
 	}

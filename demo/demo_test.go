@@ -1,4 +1,4 @@
-package antecedent_test
+package demo_test
 
 import (
 	"bytes"
@@ -7,17 +7,17 @@ import (
 	"path/filepath"
 	"testing"
 
-	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/demo"
 )
 
-var update = flag.Bool("update", false, "rewrite the demonstration files in testdata/demo")
+var update = flag.Bool("update", false, "rewrite the demonstration files in testdata")
 
 // TestDemoFilesUpToDate checks that the shipped demonstration files are
-// exactly what DemoModel draws with DemoSeed; run with -update to rewrite
+// exactly what Model draws with Seed; run with -update to rewrite
 // them after changing the model.
 func TestDemoFilesUpToDate(t *testing.T) {
 	var data, ord, truth bytes.Buffer
-	if err := antecedent.WriteDemoFiles(&data, &ord, &truth); err != nil {
+	if err := demo.WriteFiles(&data, &ord, &truth); err != nil {
 		t.Fatal(err)
 	}
 	files := map[string][]byte{
@@ -26,14 +26,14 @@ func TestDemoFilesUpToDate(t *testing.T) {
 		"joint_replacement_truth.csv": truth.Bytes(),
 	}
 	for name, want := range files {
-		path := filepath.Join("testdata", "demo", name)
+		path := filepath.Join("testdata", name)
 		if *update {
 			if err := os.WriteFile(path, want, 0o644); err != nil {
 				t.Fatal(err)
 			}
 			continue
 		}
-		got, err := antecedent.DemoFile(name)
+		got, err := demo.File(name)
 		if err != nil {
 			t.Fatal(err)
 		}

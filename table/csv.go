@@ -1,4 +1,4 @@
-package antecedent
+package table
 
 import (
 	"encoding/csv"
@@ -37,18 +37,15 @@ type CSVError struct {
 func (e *CSVError) Error() string {
 	switch {
 	case e.Column > 0 && e.Name != "":
-		return fmt.Sprintf("antecedent: CSV line %d, column %d (%q): %v", e.Line, e.Column, e.Name, e.Err)
+		return fmt.Sprintf("table: CSV line %d, column %d (%q): %v", e.Line, e.Column, e.Name, e.Err)
 	case e.Column > 0:
-		return fmt.Sprintf("antecedent: CSV line %d, column %d: %v", e.Line, e.Column, e.Err)
+		return fmt.Sprintf("table: CSV line %d, column %d: %v", e.Line, e.Column, e.Err)
 	}
-	return fmt.Sprintf("antecedent: CSV line %d: %v", e.Line, e.Err)
+	return fmt.Sprintf("table: CSV line %d: %v", e.Line, e.Err)
 }
 
 // Unwrap returns the underlying error.
 func (e *CSVError) Unwrap() error { return e.Err }
-
-// ErrCSV is wrapped by CSV format errors.
-var ErrCSV = errors.New("bad CSV")
 
 // isMissing reports whether a cell marks a missing value.
 func isMissing(s string) bool {

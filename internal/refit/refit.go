@@ -1,0 +1,136 @@
+// Package refit estimates effects by unpenalised regression of a response
+// on a chosen set of predictors: least squares for a Gaussian response
+// (standard errors from the residual variance with n − k − 1 degrees of
+// freedom, intervals from Student's t) and maximum likelihood by
+// Newton–Raphson with step halving for other families (standard errors
+// from the inverse Fisher information with dispersion 1, normal
+// intervals). It works on the predictors scaled to unit spread so that
+// very different scales stay well conditioned.
+package refit
+
+import (
+	"context"
+	"errors"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/antecedent-lab/antecedent/lasso"
+)
+
+// z975 is the 97.5% point of the standard normal distribution.
+const z975 = 1.959963984540054
+
+// Fit is an unpenalised regression of a response on k predictors. Values
+// that could not be estimated are NaN, and Warning says why.
+type Fit struct {
+	Intercept float64
+	// Coef and SE hold each predictor's coefficient and standard error.
+	Coef, SE []float64
+	// Quantile is the critical value of two-sided 95% intervals
+	// Coef ± Quantile·SE.
+	Quantile float64
+	// SD holds the population standard deviations of the predictors and,
+	// last, of the response, over the rows used.
+	SD []float64
+	// Warning is empty when all went well.
+	Warning string
+}
+
+// Regress fits y on the columns x over rows (nil means every row): least
+// squares when fam is lasso.Gaussian, maximum likelihood otherwise. It
+// never modifies its inputs and returns an error only for inputs the
+// moment accumulation refuses (such as mismatched lengths) or ctx.Err().
+func Regress(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, rows []int) (Fit, error) {
+	k := len(x)
+	n := len(y)
+	if rows != nil {
+		n = len(rows)
+	}
+	local := append(x[:k:k], y)
+	m := lasso.NewMoments(lasso.ColumnMeans(local, nil, rows))
+	if err := m.Accumulate(local, nil, rows); err != nil {
+		return Fit{}, err
+	}
+	f := Fit{Coef: make([]float64, k), SE: make([]float64, k), SD: make([]float64, k+1), Quantile: z975}
+	for t := range f.SD {
+		f.SD[t] = math.Sqrt(math.Max(m.Covariance(t, t), 0))
+	}
+	for t := range f.SE {
+		f.SE[t] = math.NaN()
+	}
+	if _, ok := fam.(lasso.Gaussian); ok {
+		f.Intercept = m.Mean(k)
+		if k > 0 {
+			f.leastSquares(m, n)
+		}
+		if n-k-1 > 0 {
+			f.Quantile = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - k - 1)}.Quantile(0.975)
+		}
+		return f, nil
+	}
+	f.Intercept = fam.Link(m.Mean(k))
+	if k > 0 {
+		f.Intercept, f.Coef, f.SE, f.Warning = newtonGLM(ctx, fam, x, y, rows, f.Intercept)
+	}
+	if f.Warning == "cancelled" {
+		return Fit{}, ctx.Err()
+	}
+	return f, nil
+}
+
+// leastSquares solves the normal equations from the moments m of the k
+// predictors and the response (last), on the correlation scale.
+func (f *Fit) leastSquares(m *lasso.Moments, n int) {
+	k := len(f.Coef)
+	scale := make([]float64, k)
+	for a := range k {
+		scale[a] = f.SD[a]
+		if scale[a] == 0 {
+			scale[a] = 1
+		}
+	}
+	c := mat.NewSymDense(k, nil)
+	rhs := mat.NewVecDense(k, nil)
+	for a := range k {
+		rhs.SetVec(a, m.Covariance(a, k)/scale[a])
+		for b := a; b < k; b++ {
+			c.SetSym(a, b, m.Covariance(a, b)/(scale[a]*scale[b]))
+		}
+	}
+	var ch mat.Cholesky
+	var b mat.VecDense
+	ok := ch.Factorize(c)
+	if ok {
+		if err := ch.SolveVecTo(&b, rhs); err != nil {
+			var cond mat.Condition
+			ok = errors.As(err, &cond) && float64(cond) < 1e14
+		}
+	}
+	if !ok {
+		f.Warning = "parents are collinear; effects not estimated"
+		for t := range f.Coef {
+			f.Coef[t] = math.NaN()
+		}
+		f.Intercept = math.NaN()
+		return
+	}
+	rss := m.Covariance(k, k)
+	for a := range k {
+		f.Coef[a] = b.AtVec(a) / scale[a]
+		rss -= b.AtVec(a) * rhs.AtVec(a)
+		f.Intercept -= f.Coef[a] * m.Mean(a)
+	}
+	df := float64(n - k - 1)
+	if df <= 0 {
+		return
+	}
+	sigma2 := math.Max(rss, 0) * m.Weight / df
+	var inv mat.SymDense
+	if err := ch.InverseTo(&inv); err == nil || isCondition(err) {
+		for a := range k {
+			f.SE[a] = math.Sqrt(sigma2*inv.At(a, a)/m.Weight) / scale[a]
+		}
+	}
+}
