@@ -5,7 +5,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"slices"
 
 	"gonum.org/v1/gonum/mat"
 
@@ -19,101 +18,119 @@ func isCondition(err error) bool {
 	return errors.As(err, &cond) && float64(cond) < 1e14
 }
 
-// newtonGLM fits an unpenalised GLM of y on the columns x (with an
-// intercept) by Newton–Raphson / Fisher scoring on the full information
-// matrix, with step halving on the deviance, starting from intercept b0
-// and zero slopes. It returns the intercept, the coefficients, their
-// standard errors (the inverse information, dispersion 1) and a warning,
-// empty when all went well.
-func newtonGLM(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, rows []int, b0 float64) (float64, []float64, []float64, string) {
-	k := len(x)
-	n := len(y)
+// glm is an unpenalised GLM of y on the columns x (with an intercept),
+// worked on the predictors divided by scale so that very different scales
+// stay well conditioned. Coefficients are held intercept first.
+type glm struct {
+	fam   lasso.Family
+	x     [][]float64
+	y     []float64
+	rows  []int
+	n     int
+	scale []float64
+	buf   []float64 // one row of the scaled design, 1 first
+	eta   []float64 // linear predictor of each row at the last deviance
+}
+
+func newGLM(fam lasso.Family, x [][]float64, y []float64, rows []int, sd []float64) *glm {
+	g := &glm{fam: fam, x: x, y: y, rows: rows, n: len(y), scale: make([]float64, len(x)), buf: make([]float64, len(x)+1)}
 	if rows != nil {
-		n = len(rows)
+		g.n = len(rows)
 	}
-	beta := make([]float64, k+1) // intercept first
-	beta[0] = b0
-	eta := make([]float64, n)
-	buf := make([]float64, k+1)
-	buf[0] = 1
-	// Work on predictors divided by their standard deviations, so that
-	// very different scales stay well conditioned.
-	scale := make([]float64, k)
-	for a, c := range x {
-		var s1, s2 float64
-		for t := range n {
-			v := c[rowAt(rows, t)]
-			s1 += v
-			s2 += v * v
-		}
-		m := s1 / float64(n)
-		scale[a] = math.Sqrt(math.Max(s2/float64(n)-m*m, 0))
-		if !(scale[a] > 0) {
-			scale[a] = 1
+	for a := range x {
+		g.scale[a] = sd[a]
+		if !(g.scale[a] > 0) {
+			g.scale[a] = 1
 		}
 	}
-	row := func(t int) []float64 {
-		i := rowAt(rows, t)
-		for a, c := range x {
-			buf[a+1] = c[i] / scale[a]
-		}
-		return buf
+	g.buf[0] = 1
+	g.eta = make([]float64, g.n)
+	return g
+}
+
+// row returns row t of the scaled design (shared: do not keep it).
+func (g *glm) row(t int) []float64 {
+	i := rowAt(g.rows, t)
+	for a, c := range g.x {
+		g.buf[a+1] = c[i] / g.scale[a]
 	}
-	deviance := func(b []float64) float64 {
-		var d float64
-		for t := range n {
-			e := 0.0
-			for a, v := range row(t) {
-				e += b[a] * v
-			}
-			eta[t] = e
-			d += fam.Deviance(y[rowAt(rows, t)], fam.Mean(e))
+	return g.buf
+}
+
+// deviance returns the deviance at coefficients b and leaves the linear
+// predictor in g.eta.
+func (g *glm) deviance(b []float64) float64 {
+	var d float64
+	for t := range g.n {
+		e := 0.0
+		for a, v := range g.row(t) {
+			e += b[a] * v
 		}
-		return d
+		g.eta[t] = e
+		d += g.fam.Deviance(g.y[rowAt(g.rows, t)], g.fam.Mean(e))
 	}
-	nanAll := func(msg string) (float64, []float64, []float64, string) {
-		est := make([]float64, k)
-		se := make([]float64, k)
-		for a := range est {
-			est[a], se[a] = math.NaN(), math.NaN()
-		}
-		return math.NaN(), est, se, msg
-	}
-	null := deviance(beta)
-	dev := null
+	return d
+}
+
+// information returns the Fisher information at g.eta and, when rhs is
+// not nil, fills it with the score's working-response form X'W z. With
+// exact, binomial weights are the exact variance μ(1 − μ), without the
+// bound the solver's weights keep for stability, and rows fitted with a
+// linear predictor beyond ±15 are counted.
+func (g *glm) information(rhs *mat.VecDense, exact bool) (*mat.SymDense, int) {
+	k := len(g.x)
 	info := mat.NewSymDense(k+1, nil)
-	rhs := mat.NewVecDense(k+1, nil)
-	var ch mat.Cholesky
-	converged := false
-	for iter := 0; iter < 100 && !converged; iter++ {
-		if ctx.Err() != nil {
-			return nanAll("cancelled")
+	_, binomial := g.fam.(lasso.Binomial)
+	extreme := 0
+	for t := range g.n {
+		xt := g.row(t)
+		h, r := g.fam.Working(g.y[rowAt(g.rows, t)], g.eta[t])
+		if exact && binomial {
+			mu := g.fam.Mean(g.eta[t])
+			h = mu * (1 - mu)
 		}
-		info.Zero()
-		rhs.Zero()
-		for t := range n {
-			xt := row(t)
-			h, r := fam.Working(y[rowAt(rows, t)], eta[t])
-			for a := 0; a <= k; a++ {
+		if exact && math.Abs(g.eta[t]) > 15 {
+			extreme++
+		}
+		for a := 0; a <= k; a++ {
+			if rhs != nil {
 				rhs.SetVec(a, rhs.AtVec(a)+h*r*xt[a])
-				for c := a; c <= k; c++ {
-					info.SetSym(a, c, info.At(a, c)+h*xt[a]*xt[c])
-				}
+			}
+			for c := a; c <= k; c++ {
+				info.SetSym(a, c, info.At(a, c)+h*xt[a]*xt[c])
 			}
 		}
+	}
+	return info, extreme
+}
+
+// newton runs Newton–Raphson (Fisher scoring) from beta with step halving
+// on the deviance, for at most 100 steps, changing beta in place. It
+// reports whether it converged, or a reason the effects cannot be
+// estimated.
+func (g *glm) newton(ctx context.Context, beta []float64) (converged bool, fail string, err error) {
+	null := g.deviance(beta)
+	dev := null
+	var ch mat.Cholesky
+	trial := make([]float64, len(beta))
+	for iter := 0; iter < 100 && !converged; iter++ {
+		if err := ctx.Err(); err != nil {
+			return false, "", err
+		}
+		rhs := mat.NewVecDense(len(beta), nil)
+		info, _ := g.information(rhs, false)
 		if !ch.Factorize(info) {
-			return nanAll("parents are collinear; effects not estimated")
+			return false, "parents are collinear; effects not estimated", nil
 		}
 		var step mat.VecDense
 		if err := ch.SolveVecTo(&step, rhs); err != nil && !isCondition(err) {
-			return nanAll("parents are collinear; effects not estimated")
+			return false, "parents are collinear; effects not estimated", nil
 		}
-		trial := make([]float64, k+1)
 		for scale := 1.0; ; scale /= 2 {
 			for a := range trial {
 				trial[a] = beta[a] + scale*step.AtVec(a)
 			}
-			d := deviance(trial)
+			d := g.deviance(trial)
 			if d <= dev*(1+1e-14) || scale < 1e-10 {
 				converged = math.Abs(dev-d) <= 1e-12*(math.Abs(d)+0.1)
 				dev = d
@@ -122,60 +139,56 @@ func newtonGLM(ctx context.Context, fam lasso.Family, x [][]float64, y []float64
 		}
 		copy(beta, trial)
 		if null > 0 && 1-dev/null >= 0.999 {
-			return nanAll("the parents predict this node (almost) perfectly (separation); effects not estimable")
+			return false, "the parents predict this node (almost) perfectly (separation); effects not estimable", nil
 		}
 	}
-	// Information at the solution for the standard errors.
-	deviance(beta)
-	info.Zero()
-	extreme := 0
-	for t := range n {
-		xt := row(t)
-		if math.Abs(eta[t]) > 15 {
-			extreme++
-		}
-		h, _ := fam.Working(y[rowAt(rows, t)], eta[t])
-		if _, ok := fam.(lasso.Binomial); ok {
-			// The exact variance, without the bound the solver's
-			// weights keep for stability.
-			mu := fam.Mean(eta[t])
-			h = mu * (1 - mu)
-		}
-		for a := 0; a <= k; a++ {
-			for c := a; c <= k; c++ {
-				info.SetSym(a, c, info.At(a, c)+h*xt[a]*xt[c])
-			}
-		}
+	return converged, "", nil
+}
+
+// fitGLM fits the model from intercept b0 and zero slopes and fills f's
+// intercept, coefficients and standard errors (the inverse information at
+// the solution, dispersion 1), with a warning when they are unreliable.
+func (f *Fit) fitGLM(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, rows []int) error {
+	g := newGLM(fam, x, y, rows, f.SD)
+	beta := make([]float64, len(x)+1)
+	beta[0] = f.Intercept
+	converged, fail, err := g.newton(ctx, beta)
+	if err != nil {
+		return err
 	}
-	est := slices.Clone(beta[1:])
-	for a := range est {
-		est[a] /= scale[a]
+	if fail != "" {
+		f.Intercept, f.Warning = math.NaN(), fail
+		for a := range f.Coef {
+			f.Coef[a] = math.NaN()
+		}
+		return nil
 	}
-	se := make([]float64, k)
+	f.Intercept = beta[0]
+	for a := range f.Coef {
+		f.Coef[a] = beta[a+1] / g.scale[a]
+	}
+	g.deviance(beta)
+	info, extreme := g.information(nil, true)
+	var ch mat.Cholesky
 	var inv mat.SymDense
 	if !ch.Factorize(info) {
-		for a := range se {
-			se[a] = math.NaN()
-		}
-		return beta[0], est, se, "information matrix is singular; standard errors not estimated"
+		f.Warning = "information matrix is singular; standard errors not estimated"
+		return nil
 	}
 	if err := ch.InverseTo(&inv); err != nil && !isCondition(err) {
-		for a := range se {
-			se[a] = math.NaN()
-		}
-		return beta[0], est, se, "information matrix is singular; standard errors not estimated"
+		f.Warning = "information matrix is singular; standard errors not estimated"
+		return nil
 	}
-	for a := range se {
-		se[a] = math.Sqrt(inv.At(a+1, a+1)) / scale[a]
+	for a := range f.SE {
+		f.SE[a] = math.Sqrt(inv.At(a+1, a+1)) / g.scale[a]
 	}
-	msg := ""
 	switch {
 	case !converged:
-		msg = "unpenalised refit did not converge in 100 iterations"
+		f.Warning = "unpenalised refit did not converge in 100 iterations"
 	case extreme > 0:
-		msg = fmt.Sprintf("%d rows fitted with linear predictor beyond ±15 (near-perfect separation); standard errors unreliable", extreme)
+		f.Warning = fmt.Sprintf("%d rows fitted with linear predictor beyond ±15 (near-perfect separation); standard errors unreliable", extreme)
 	}
-	return beta[0], est, se, msg
+	return nil
 }
 
 func rowAt(rows []int, t int) int {

@@ -72,10 +72,9 @@ func Regress(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, 
 	}
 	f.Intercept = fam.Link(m.Mean(k))
 	if k > 0 {
-		f.Intercept, f.Coef, f.SE, f.Warning = newtonGLM(ctx, fam, x, y, rows, f.Intercept)
-	}
-	if f.Warning == "cancelled" {
-		return Fit{}, ctx.Err()
+		if err := f.fitGLM(ctx, fam, x, y, rows); err != nil {
+			return Fit{}, err
+		}
 	}
 	return f, nil
 }
