@@ -42,3 +42,11 @@ func TestDemoFilesUpToDate(t *testing.T) {
 		}
 	}
 }
+
+func BenchmarkLoad(b *testing.B) {
+	for range b.N {
+		if _, _, _, err := demo.Load(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

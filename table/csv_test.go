@@ -2,6 +2,7 @@ package table_test
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"slices"
 	"strings"
@@ -96,5 +97,37 @@ func TestReadCSVQuotedNewline(t *testing.T) {
 	}
 	if names := d.Names(); names[0] != "first\nname" || d.Rows() != 2 {
 		t.Errorf("names %q rows %d", names, d.Rows())
+	}
+}
+
+func BenchmarkReadCSV20kP50(b *testing.B) {
+	var sb strings.Builder
+	for j := range 50 {
+		if j > 0 {
+			sb.WriteByte(',')
+		}
+		fmt.Fprintf(&sb, "v%d", j)
+	}
+	sb.WriteByte('\n')
+	for i := range 20_000 {
+		for j := range 50 {
+			if j > 0 {
+				sb.WriteByte(',')
+			}
+			if j%3 == 0 {
+				fmt.Fprintf(&sb, "%d", (i*j)%2)
+			} else {
+				fmt.Fprintf(&sb, "%.4f", float64((i*7919+j*104729)%100000)/1000)
+			}
+		}
+		sb.WriteByte('\n')
+	}
+	in := sb.String()
+	b.SetBytes(int64(len(in)))
+	b.ResetTimer()
+	for range b.N {
+		if _, err := table.ReadCSV(strings.NewReader(in), nil); err != nil {
+			b.Fatal(err)
+		}
 	}
 }

@@ -1,0 +1,155 @@
+package refit
+
+import (
+	"context"
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+
+	"github.com/antecedent-lab/antecedent/internal/opendata"
+	"github.com/antecedent-lab/antecedent/lasso"
+)
+
+type reference struct {
+	Tool  string `json:"tool"`
+	OLS   coefs  `json:"ols"`
+	Logit coefs  `json:"logit"`
+}
+
+type coefs struct {
+	Terms  []string  `json:"terms"`
+	Params []float64 `json:"params"`
+	BSE    []float64 `json:"bse"`
+	Lower  []float64 `json:"lower"`
+	Upper  []float64 `json:"upper"`
+}
+
+// TestRegressAgainstStatsmodels compares estimates, standard errors and
+// 95% intervals with statsmodels OLS (diabetes data, Efron et al. 2004) and
+// Logit (breast cancer data, Wolberg et al.), as stored by
+// testdata/reference/refit_reference.py.
+func TestRegressAgainstStatsmodels(t *testing.T) {
+	var ref reference
+	if err := opendata.ReadJSON("reference/refit.json", &ref); err != nil {
+		t.Fatal(err)
+	}
+	cases := []struct {
+		name, file, response string
+		fam                  lasso.Family
+		want                 coefs
+	}{
+		{"least squares", "diabetes.csv", "progression", lasso.Gaussian{}, ref.OLS},
+		{"logistic", "breast_cancer.csv", "benign", lasso.Binomial{}, ref.Logit},
+	}
+	for _, c := range cases {
+		tab, err := opendata.ReadCSV(c.file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var x [][]float64
+		for _, term := range c.want.Terms[1:] {
+			x = append(x, tab.Column(term))
+		}
+		f, err := Regress(context.Background(), c.fam, x, tab.Column(c.response), nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if f.Warning != "" && !strings.Contains(f.Warning, "beyond ±15") {
+			t.Errorf("%s: warning %q", c.name, f.Warning)
+		}
+		rel := func(a, b float64) float64 { return math.Abs(a-b) / math.Max(1e-12, math.Abs(b)) }
+		worst := rel(f.Intercept, c.want.Params[0])
+		for k := range x {
+			lo, hi := f.Coef[k]-f.Quantile*f.SE[k], f.Coef[k]+f.Quantile*f.SE[k]
+			for _, p := range [][2]float64{{f.Coef[k], c.want.Params[k+1]}, {f.SE[k], c.want.BSE[k+1]}, {lo, c.want.Lower[k+1]}, {hi, c.want.Upper[k+1]}} {
+				worst = math.Max(worst, rel(p[0], p[1]))
+			}
+		}
+		// 1e-6 relative: both sides solve far more tightly (common practice).
+		if worst > 1e-6 {
+			t.Errorf("%s: largest relative difference from %s is %.2g", c.name, ref.Tool, worst)
+		}
+	}
+}
+
+// TestRegressDegenerate checks the warnings that replace numbers a reader
+// must not trust.
+func TestRegressDegenerate(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	n := 400
+	a, b, y, sep := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	for i := range n {
+		a[i] = rng.NormFloat64()
+		b[i] = 2 * a[i] // collinear with a
+		y[i] = a[i] + rng.NormFloat64()
+		if a[i] > 0 {
+			sep[i] = 1 // perfectly separated by a
+		}
+	}
+	cases := []struct {
+		name string
+		fam  lasso.Family
+		x    [][]float64
+		y    []float64
+		want string
+	}{
+		{"collinear least squares", lasso.Gaussian{}, [][]float64{a, b}, y, "collinear"},
+		{"collinear logistic", lasso.Binomial{}, [][]float64{a, b}, sep, "collinear"},
+	}
+	for _, c := range cases {
+		f, err := Regress(context.Background(), c.fam, c.x, c.y, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(f.Warning, c.want) || !math.IsNaN(f.Coef[0]) {
+			t.Errorf("%s: warning %q, coefficient %g; want %q and NaN", c.name, f.Warning, f.Coef[0], c.want)
+		}
+	}
+	// Perfect separation is never a silent number.
+	f, err := Regress(context.Background(), lasso.Binomial{}, [][]float64{a}, sep, nil)
+	if err != nil || f.Warning == "" {
+		t.Errorf("separation: warning %q, error %v", f.Warning, err)
+	}
+}
+
+func TestRegressCancelled(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	x := []float64{0, 1, 0, 1, 1, 0}
+	y := []float64{0, 1, 1, 1, 0, 0}
+	if _, err := Regress(ctx, lasso.Binomial{}, [][]float64{x}, y, nil); err != context.Canceled {
+		t.Errorf("error %v, want context.Canceled", err)
+	}
+}
+
+func BenchmarkRegressLogistic10kP8(b *testing.B) { benchRegress(b, lasso.Binomial{}, 10_000, 8) }
+func BenchmarkRegressLinear10kP8(b *testing.B)   { benchRegress(b, lasso.Gaussian{}, 10_000, 8) }
+
+func benchRegress(b *testing.B, fam lasso.Family, n, p int) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	x := make([][]float64, p)
+	y := make([]float64, n)
+	for j := range x {
+		x[j] = make([]float64, n)
+		for i := range n {
+			x[j][i] = rng.NormFloat64()
+		}
+	}
+	for i := range n {
+		eta := 0.3*x[0][i] - 0.2*x[1][i]
+		if _, ok := fam.(lasso.Binomial); ok {
+			if rng.Float64() < 1/(1+math.Exp(-eta)) {
+				y[i] = 1
+			}
+		} else {
+			y[i] = eta + rng.NormFloat64()
+		}
+	}
+	b.ResetTimer()
+	for range b.N {
+		if _, err := Regress(context.Background(), fam, x, y, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
