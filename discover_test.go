@@ -119,20 +119,6 @@ func TestRandomGaussianRecovery(t *testing.T) {
 	}
 }
 
-type refitReference struct {
-	Tool  string `json:"tool"`
-	OLS   coefs  `json:"ols"`
-	Logit coefs  `json:"logit"`
-}
-
-type coefs struct {
-	Terms  []string  `json:"terms"`
-	Params []float64 `json:"params"`
-	BSE    []float64 `json:"bse"`
-	Lower  []float64 `json:"lower"`
-	Upper  []float64 `json:"upper"`
-}
-
 // TestRefitAgainstStatsmodels checks the unpenalised refit (estimates,
 // standard errors, 95% intervals) against statsmodels OLS on the diabetes
 // data (Efron et al. 2004) and Logit on the breast-cancer data (Wolberg,
@@ -140,13 +126,13 @@ type coefs struct {
 // testdata/reference/refit_reference.py. Required edges make the parents
 // exactly the reference's predictors.
 func TestRefitAgainstStatsmodels(t *testing.T) {
-	var ref refitReference
-	if err := opendata.ReadJSON("reference/refit.json", &ref); err != nil {
+	ref, err := opendata.ReadRefit()
+	if err != nil {
 		t.Fatal(err)
 	}
 	for _, c := range []struct {
 		file, response string
-		want           coefs
+		want           opendata.Coefficients
 	}{
 		{"diabetes.csv", "progression", ref.OLS},
 		{"breast_cancer.csv", "benign", ref.Logit},

@@ -106,3 +106,31 @@ func UnitNorm(cols [][]float64) [][]float64 {
 }
 
 func sqrt(x float64) float64 { return math.Sqrt(x) }
+
+// Refit holds the unpenalised regression references written by
+// testdata/reference/refit_reference.py (statsmodels OLS on the diabetes
+// data, Logit on the breast cancer data).
+type Refit struct {
+	Tool  string       `json:"tool"`
+	OLS   Coefficients `json:"ols"`
+	Logit Coefficients `json:"logit"`
+}
+
+// Coefficients are one model's terms (intercept first) with estimates,
+// standard errors and 95% interval bounds.
+type Coefficients struct {
+	Terms  []string  `json:"terms"`
+	Params []float64 `json:"params"`
+	BSE    []float64 `json:"bse"`
+	Lower  []float64 `json:"lower"`
+	Upper  []float64 `json:"upper"`
+}
+
+// ReadRefit reads the stored refit references.
+func ReadRefit() (*Refit, error) {
+	var r Refit
+	if err := ReadJSON("reference/refit.json", &r); err != nil {
+		return nil, err
+	}
+	return &r, nil
+}

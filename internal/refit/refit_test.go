@@ -11,33 +11,19 @@ import (
 	"github.com/antecedent-lab/antecedent/lasso"
 )
 
-type reference struct {
-	Tool  string `json:"tool"`
-	OLS   coefs  `json:"ols"`
-	Logit coefs  `json:"logit"`
-}
-
-type coefs struct {
-	Terms  []string  `json:"terms"`
-	Params []float64 `json:"params"`
-	BSE    []float64 `json:"bse"`
-	Lower  []float64 `json:"lower"`
-	Upper  []float64 `json:"upper"`
-}
-
 // TestRegressAgainstStatsmodels compares estimates, standard errors and
 // 95% intervals with statsmodels OLS (diabetes data, Efron et al. 2004) and
 // Logit (breast cancer data, Wolberg et al.), as stored by
 // testdata/reference/refit_reference.py.
 func TestRegressAgainstStatsmodels(t *testing.T) {
-	var ref reference
-	if err := opendata.ReadJSON("reference/refit.json", &ref); err != nil {
+	ref, err := opendata.ReadRefit()
+	if err != nil {
 		t.Fatal(err)
 	}
 	cases := []struct {
 		name, file, response string
 		fam                  lasso.Family
-		want                 coefs
+		want                 opendata.Coefficients
 	}{
 		{"least squares", "diabetes.csv", "progression", lasso.Gaussian{}, ref.OLS},
 		{"logistic", "breast_cancer.csv", "benign", lasso.Binomial{}, ref.Logit},
