@@ -310,3 +310,72 @@ func TestCancel(t *testing.T) {
 		t.Fatalf("error %v", err)
 	}
 }
+
+// TestStandardErrorFoldScheme checks that the standard error behind the
+// one-standard-error rule does not collapse when folds are stratified. On a
+// binary response with weak signal, stratified folds make the fold means
+// of held-out deviance nearly equal (their spread falls by an order of
+// magnitude against random folds), which made the rule admit spurious
+// predictors. The standard error now comes from the rows' own losses, so
+// the two schemes give standard errors of the same size; and with random
+// folds it agrees with the spread of the fold means, its usual estimate
+// (common practice: the SD of K fold means over √K estimates the same
+// quantity as the SD of n row losses over √n).
+func TestStandardErrorFoldScheme(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	n, p := 3000, 10
+	x := make([][]float64, p)
+	for j := range x {
+		x[j] = make([]float64, n)
+		for i := range n {
+			x[j][i] = rng.NormFloat64()
+		}
+	}
+	y := make([]float64, n)
+	for i := range n {
+		if rng.Float64() < 1/(1+math.Exp(-(-1+0.15*x[0][i]))) {
+			y[i] = 1
+		}
+	}
+	d := lasso.Data{Columns: x, Response: y}
+	s := &cv.Settings{Path: lasso.Settings{Family: lasso.Binomial{}, NumPenalties: 30}}
+	strat, err := cv.Stratified(y, 10, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	random, err := cv.Random(n, 10, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rs, err := cv.Fit(context.Background(), d, strat, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rr, err := cv.Fit(context.Background(), d, random, s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []int{0, 10, 29} {
+		ratio := rs.Curve[k].SE / rr.Curve[k].SE
+		if ratio < 0.8 || ratio > 1.25 {
+			t.Errorf("penalty %d: stratified SE %.4g, random SE %.4g (ratio %.2f)", k, rs.Curve[k].SE, rr.Curve[k].SE, ratio)
+		}
+		spread := foldSpread(rr.FoldValues, k)
+		if r := rr.Curve[k].SE / spread; r < 0.5 || r > 2 {
+			t.Errorf("penalty %d: row SE %.4g against fold-mean SE %.4g with random folds", k, rr.Curve[k].SE, spread)
+		}
+	}
+}
+
+// foldSpread returns the SD of the fold values at penalty k over √K.
+func foldSpread(v [][]float64, k int) float64 {
+	var s, ss float64
+	for _, f := range v {
+		s += f[k]
+	}
+	m := s / float64(len(v))
+	for _, f := range v {
+		ss += (f[k] - m) * (f[k] - m)
+	}
+	return math.Sqrt(ss/float64(len(v)-1)) / math.Sqrt(float64(len(v)))
+}

@@ -56,6 +56,11 @@ type Result struct {
 	// Best is the index of the best mean; OneSE the index chosen by the
 	// one-standard-error rule; Selected the index chosen by Rule.
 	Best, OneSE, Selected int
+
+	// rows holds, per fold and penalty, sums of the held-out rows' own
+	// losses (nil when the measure is not a mean of per-row losses or the
+	// rows' predictions were not formed).
+	rows [][]rowSums
 }
 
 // Penalty returns the selected penalty.
@@ -150,7 +155,8 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 	if full.Len() == 0 {
 		return nil, fmt.Errorf("cv: the full-data path fitted no penalty (%v)", full.Status)
 	}
-	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K), FoldPaths: make([]*lasso.Path, folds.K)}
+	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K), FoldPaths: make([]*lasso.Path, folds.K),
+		rows: make([][]rowSums, folds.K)}
 	grid := full.Penalties
 	err = pool.Run(ctx, c.Workers, folds.K, func(ctx context.Context, f int) error {
 		ps := c.Path
@@ -178,6 +184,10 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		}
 		mu := make([]float64, len(held))
 		vals := make([]float64, len(grid))
+		var rows []rowSums
+		if c.Measure.perRow() {
+			rows = make([]rowSums, len(grid))
+		}
 		ho := gatherHeldOut(path, d.Columns, held)
 		for k := range grid {
 			ho.meanTo(mu, path, min(k, path.Len()-1))
@@ -186,8 +196,12 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 				return fmt.Errorf("cv: fold %d: %w", f, err)
 			}
 			vals[k] = v
+			if rows != nil {
+				rows[k] = sumRows(c.Measure, fam, mu, y, w)
+			}
 		}
 		r.FoldValues[f] = vals
+		r.rows[f] = rows
 		r.FoldPaths[f] = path
 		return nil
 	})
@@ -292,7 +306,7 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	for k, l := range grid {
 		r.Curve[k] = Point{Penalty: l, LogPenalty: -math.Log(l), NonZero: nonZero[k]}
 	}
-	summarise(r.Curve, r.FoldValues)
+	summarise(r.Curve, r.FoldValues, r.rows)
 	r.Best, r.OneSE = Choose(r.Curve, r.Measure.LargerIsBetter())
 	r.Selected = r.OneSE
 	if r.Rule == MinimumLoss {

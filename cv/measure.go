@@ -110,6 +110,43 @@ func evaluate(m Measure, fam lasso.Family, mu, y, w []float64) (float64, error) 
 	return math.NaN(), fmt.Errorf("%w: %v", ErrMeasure, m)
 }
 
+// perRow reports whether the measure is a weighted mean of per-row
+// losses (AUC is not).
+func (m Measure) perRow() bool { return m != AreaUnderCurve }
+
+// sumRows returns the sums of the per-row losses behind evaluate's mean:
+// the unit deviance for Deviance, (y − μ)², |y − μ| and the 0/1 error.
+func sumRows(m Measure, fam lasso.Family, mu, y, w []float64) rowSums {
+	var s rowSums
+	for i, v := range y {
+		var l float64
+		switch m {
+		case Deviance:
+			l = fam.Deviance(v, mu[i])
+		case MeanSquaredError:
+			l = (v - mu[i]) * (v - mu[i])
+		case MeanAbsoluteError:
+			l = math.Abs(v - mu[i])
+		case Misclassification:
+			if (mu[i] >= 0.5) != (v == 1) {
+				l = 1
+			}
+		}
+		if math.IsInf(l, 0) || math.IsNaN(l) {
+			continue // a prediction of exactly 0 or 1 that was wrong
+		}
+		wi := 1.0
+		if w != nil {
+			wi = w[i]
+		}
+		s.wl += wi * l
+		s.wl2 += wi * l * l
+		s.w += wi
+		s.w2 += wi * wi
+	}
+	return s
+}
+
 // MarshalText implements encoding.TextMarshaler.
 func (m Measure) MarshalText() ([]byte, error) { return []byte(m.String()), nil }
 

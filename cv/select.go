@@ -50,8 +50,13 @@ type Point struct {
 	Penalty    float64 // the penalty λ
 	LogPenalty float64 // −log λ, the usual horizontal axis
 	Mean       float64 // mean held-out measure across folds
-	SE         float64 // standard error of Mean: SD of fold values (n−1) / √K
-	NonZero    int     // non-zero coefficients of the full-data fit
+	// SE is the standard error of Mean: from the held-out rows' own
+	// losses (their weighted SD over √(n−1)) when the measure is a mean of
+	// per-row losses and the rows' predictions are formed (Fit), whatever
+	// the fold scheme; otherwise (AUC, FitMoments) the SD of the fold
+	// values (n−1) over √K.
+	SE      float64
+	NonZero int // non-zero coefficients of the full-data fit
 }
 
 // Choose returns the index of the best point and the index chosen by the
@@ -84,9 +89,15 @@ func Choose(curve []Point, larger bool) (best, oneSE int) {
 }
 
 // summarise fills mean and standard error per penalty from fold values
-// loss[f][k].
-func summarise(curve []Point, loss [][]float64) {
+// loss[f][k]. The standard error comes from the held-out rows' own losses
+// when rows holds their sums for every fold (see rowSums.se), and from the
+// spread of the fold values otherwise.
+func summarise(curve []Point, loss [][]float64, rows [][]rowSums) {
 	k := float64(len(loss))
+	perRow := len(rows) == len(loss)
+	for _, r := range rows {
+		perRow = perRow && r != nil
+	}
 	for j := range curve {
 		var s float64
 		for _, l := range loss {
@@ -99,7 +110,43 @@ func summarise(curve []Point, loss [][]float64) {
 		}
 		curve[j].Mean = m
 		curve[j].SE = math.Sqrt(ss/(k-1)) / math.Sqrt(k)
+		if perRow {
+			var all rowSums
+			for _, r := range rows {
+				all.add(r[j])
+			}
+			curve[j].SE = all.se()
+		}
 	}
+}
+
+// rowSums accumulates weighted per-row losses: Σw·l, Σw·l², Σw and Σw².
+type rowSums struct{ wl, wl2, w, w2 float64 }
+
+func (s *rowSums) add(o rowSums) {
+	s.wl += o.wl
+	s.wl2 += o.wl2
+	s.w += o.w
+	s.w2 += o.w2
+}
+
+// se returns the standard error of the weighted mean loss, treating the
+// rows as independent: the weighted standard deviation of the losses over
+// the square root of the effective number of rows W²/Σw², less one. Unlike
+// the spread of fold means, it does not shrink when folds are made alike
+// (as stratified folds are), so the one-standard-error rule keeps its
+// meaning under every fold scheme.
+func (s rowSums) se() float64 {
+	if s.w <= 0 {
+		return math.NaN()
+	}
+	mean := s.wl / s.w
+	v := math.Max(s.wl2/s.w-mean*mean, 0)
+	neff := s.w * s.w / s.w2
+	if neff <= 1 {
+		return math.NaN()
+	}
+	return math.Sqrt(v / (neff - 1))
 }
 
 // MarshalText implements encoding.TextMarshaler.
