@@ -51,5 +51,5 @@ tier follow-up: outcome
 	// age -> exposure (+0.05)
 	// age -> outcome (+0.10)
 	// exposure -> outcome (+2.03)
-	// outcome: R² 0.69, Markov blanket [age exposure]
+	// outcome: R² 0.70, Markov blanket [age exposure]
 }

@@ -129,7 +129,7 @@ func (r *run) newNode(p *nodePlan) Node {
 		Name: vr.Name, Kind: vr.Kind, Family: p.family.Name(), Tier: tier + 1,
 		Candidates: r.names(p.cands), Required: r.names(p.required), Parents: r.names(p.required),
 		Penalty: nan(), BestPenalty: nan(), OneSEPenalty: nan(), Rule: r.cfg.CV.Rule, Measure: r.cfg.CV.Measure,
-		Score: Score{Value: nan(), SE: nan()}, Intercept: nan(),
+		Score: Score{Value: nan(), SE: nan()}, PenalisedScore: Score{Value: nan(), SE: nan()}, Intercept: nan(),
 	}
 	if vr.Kind == table.Categorical {
 		n.Family = ""
@@ -179,6 +179,9 @@ func (r *run) fitNode(ctx context.Context, p *nodePlan) (nodeFit, error) {
 	}
 	fit.node.Parents = r.names(fit.parents)
 	if fit.node.Intercept, fit.node.Effects, err = r.effects(ctx, p, fit.parents, &fit.node.Warnings); err != nil {
+		return fit, err
+	}
+	if fit.node.Score, err = r.refitScore(ctx, p, fit.parents, out); err != nil {
 		return fit, err
 	}
 	fit.peers, err = r.sameTier(ctx, p)
@@ -236,7 +239,7 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 			n.Penalised = append(n.Penalised, Term{Term: r.d.TermName(out.cols[t]), Variable: r.vars[out.owner[t]].Name, Value: Number(x)})
 		}
 	}
-	n.Score = r.score(p, out)
+	n.PenalisedScore = r.penalisedScore(p, out)
 	return n
 }
 

@@ -95,10 +95,15 @@ type Node struct {
 	OneSEPenalty Number     `json:"one_se_penalty"`
 	Rule         cv.Rule    `json:"rule"`
 	Measure      cv.Measure `json:"measure"`
-	// Score is the cross-validated predictive score at the selected
-	// penalty: AUC for binary nodes, R² for continuous ones, deviance
-	// explained for custom families.
+	// Score is the cross-validated score of the model whose effects are
+	// shown: the parents refitted without penalty inside each training
+	// fold and scored on the held-out rows (AUC averaged over folds for
+	// binary nodes, R² for continuous ones, deviance explained for custom
+	// families). A node without parents scores chance level exactly.
 	Score Score `json:"score"`
+	// PenalisedScore is the same measure for the penalised fit at the
+	// selected penalty: the figure the penalty was chosen on.
+	PenalisedScore Score `json:"penalised_score"`
 	// Curve is the cross-validation curve.
 	Curve []CurvePoint `json:"curve,omitempty"`
 	// Path holds the coefficient paths of the full-data fit.
@@ -118,7 +123,10 @@ type Node struct {
 type Score struct {
 	Measure string `json:"measure"`
 	Value   Number `json:"value"`
-	SE      Number `json:"se"`
+	// SE is the standard error of Value.
+	SE Number `json:"se"`
+	// Note qualifies the value ("no parents: chance level").
+	Note string `json:"note,omitempty"`
 }
 
 // CurvePoint is one penalty of a cross-validation curve.

@@ -3,8 +3,11 @@ package antecedent
 import (
 	"context"
 	"fmt"
+	"math"
+	"slices"
 
 	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/internal/refit"
 	"github.com/antecedent-lab/antecedent/lasso"
 	"github.com/antecedent-lab/antecedent/metrics"
 )
@@ -15,6 +18,7 @@ type cvOut struct {
 	rows  []int // rows used (nil: every row)
 	cols  []int // design columns of the predictors
 	owner []int // variable of each design column
+	folds *cv.Folds
 	oof   *foldScores
 }
 
@@ -48,7 +52,7 @@ func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows 
 	out := cvOut{rows: rows, cols: cols, owner: owner}
 	if r.total != nil && p.role == gaussian && s.Measure != cv.MeanAbsoluteError {
 		res, err := cv.FitMoments(ctx, r.total, r.held, r.d.Terms(p.v)[0], cols, &s)
-		out.res = res
+		out.res, out.folds = res, r.folds
 		return out, err
 	}
 	n := len(p.y)
@@ -66,7 +70,7 @@ func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows 
 	if err != nil {
 		return out, err
 	}
-	out.res = res
+	out.res, out.folds = res, folds
 	out.oof = outOfFold(res, p.y, r.cols, rows, folds)
 	return out, nil
 }
@@ -92,9 +96,10 @@ func (r *run) nodeFolds(p *nodePlan, rows []int, n int) (*cv.Folds, error) {
 	return &cv.Folds{K: folds.K, ID: spreadIDs(folds.ID, rows, len(p.y))}, nil
 }
 
-// foldScores holds out-of-fold predictions at the selected penalty.
+// foldScores holds out-of-fold predictions at the selected penalty, by
+// fold.
 type foldScores struct {
-	pred, y []float64
+	pred, y [][]float64
 }
 
 // outOfFold returns the out-of-fold means at the selected penalty, from
@@ -103,62 +108,250 @@ func outOfFold(res *cv.Result, y []float64, cols [][]float64, rows []int, folds 
 	if res.FoldPaths == nil {
 		return nil
 	}
-	var fs foldScores
+	fs := &foldScores{pred: make([][]float64, len(res.FoldPaths)), y: make([][]float64, len(res.FoldPaths))}
 	for f, path := range res.FoldPaths {
 		held := folds.Held(f, rows)
-		mu := make([]float64, len(held))
-		path.MeanTo(mu, min(res.Selected, path.Len()-1), cols, held)
-		fs.pred = append(fs.pred, mu...)
+		fs.pred[f] = make([]float64, len(held))
+		path.MeanTo(fs.pred[f], min(res.Selected, path.Len()-1), cols, held)
 		for _, i := range held {
-			fs.y = append(fs.y, y[i])
+			fs.y[f] = append(fs.y[f], y[i])
 		}
 	}
-	return &fs
+	return fs
 }
 
-// score computes the node's cross-validated score at the selected
-// penalty: pooled out-of-fold AUC with the Hanley–McNeil standard error for
-// binary nodes, R² = 1 − CV mean squared error / variance for continuous
-// ones, deviance explained for other families.
-func (r *run) score(p *nodePlan, out cvOut) Score {
-	res := out.res
-	sel := res.Selected
-	switch p.role {
+// scoreName is the measure a node of role ro is scored by.
+func scoreName(ro role) string {
+	switch ro {
 	case binomial:
-		s := Score{Measure: "auc", Value: nan(), SE: nan()}
-		if fs := out.oof; fs != nil {
-			a, err := metrics.AUC(fs.pred, fs.y, nil)
-			if err == nil {
-				pos := 0
-				for _, y := range fs.y {
-					if y == 1 {
-						pos++
-					}
-				}
-				s.Value = Number(a)
-				s.SE = Number(metrics.HanleyMcNeilSE(a, pos, len(fs.y)-pos))
+		return "auc"
+	case gaussian:
+		return "r2"
+	}
+	return "deviance explained"
+}
+
+// chance is the score of a model with no parents: AUC ½, R² 0 and no
+// deviance explained, exactly, rather than the slightly worse value that
+// cross-validation gives an intercept-only model (each training fold's
+// mean moves away from its held-out rows).
+func chance(ro role) Score {
+	s := Score{Measure: scoreName(ro), SE: 0, Note: "no parents: chance level"}
+	if ro == binomial {
+		s.Value = 0.5
+	}
+	return s
+}
+
+// foldAUC returns the mean of the folds' held-out AUCs, each fold weighted
+// by its number of positive–negative pairs, with the Hanley–McNeil
+// standard error for the pooled counts. Averaging within folds, rather than
+// pooling predictions across folds, keeps a model without information at
+// ½: pooled scores from different training folds are not on one scale
+// (Forman & Scholz 2010, SIGKDD Explorations 12(1):49–57, from memory).
+// Folds without both classes are skipped.
+func foldAUC(pred, y [][]float64) (auc, se float64) {
+	var sum, pairs float64
+	var pos, neg int
+	for f := range pred {
+		a, err := metrics.AUC(pred[f], y[f], nil)
+		if err != nil {
+			continue
+		}
+		p := 0
+		for _, v := range y[f] {
+			if v == 1 {
+				p++
 			}
 		}
-		return s
+		w := float64(p) * float64(len(y[f])-p)
+		sum += w * a
+		pairs += w
+		pos += p
+		neg += len(y[f]) - p
+	}
+	if pairs == 0 {
+		return math.NaN(), math.NaN()
+	}
+	auc = sum / pairs
+	return auc, metrics.HanleyMcNeilSE(auc, pos, neg)
+}
+
+// penalisedScore computes the penalised fit's cross-validated score at the
+// selected penalty, the figure its penalty was chosen on: the fold-averaged
+// AUC for binary nodes, R² = 1 − CV mean squared error / variance for
+// continuous ones, deviance explained for other families.
+func (r *run) penalisedScore(p *nodePlan, out cvOut) Score {
+	res := out.res
+	sel := res.Selected
+	s := Score{Measure: scoreName(p.role), Value: nan(), SE: nan()}
+	switch p.role {
+	case binomial:
+		if fs := out.oof; fs != nil {
+			a, se := foldAUC(fs.pred, fs.y)
+			s.Value, s.SE = Number(a), Number(se)
+		}
 	case gaussian:
 		_, vy := meanVar(p.y, out.rows)
 		if res.Measure == cv.Deviance || res.Measure == cv.MeanSquaredError {
-			return Score{Measure: "r2", Value: Number(1 - res.Curve[sel].Mean/vy), SE: Number(res.Curve[sel].SE / vy)}
-		}
-		s := Score{Measure: "r2", Value: nan(), SE: nan()}
-		if fs := out.oof; fs != nil {
-			if r2, err := metrics.RSquared(fs.pred, fs.y, nil); err == nil {
+			s.Value, s.SE = Number(1-res.Curve[sel].Mean/vy), Number(res.Curve[sel].SE/vy)
+		} else if fs := out.oof; fs != nil {
+			if r2, err := metrics.RSquared(slices.Concat(fs.pred...), slices.Concat(fs.y...), nil); err == nil {
 				s.Value = Number(r2)
 			}
 		}
-		return s
 	default:
 		null := res.Full.NullDeviance / res.Full.Weight
-		s := Score{Measure: "deviance explained", Value: nan(), SE: nan()}
 		if res.Measure == cv.Deviance && null > 0 {
-			s.Value = Number(1 - res.Curve[sel].Mean/null)
-			s.SE = Number(res.Curve[sel].SE / null)
+			s.Value, s.SE = Number(1-res.Curve[sel].Mean/null), Number(res.Curve[sel].SE/null)
 		}
+	}
+	return s
+}
+
+// refitScore is the cross-validated score of the model whose effects are
+// shown: the parents refitted without penalty on each training fold and
+// scored on its held-out rows, over the same folds as the penalty choice.
+// Gaussian nodes served by shared moments are refitted and scored from the
+// fold moments alone; other nodes from their rows.
+func (r *run) refitScore(ctx context.Context, p *nodePlan, parents []int, out cvOut) (Score, error) {
+	if len(parents) == 0 {
+		return chance(p.role), nil
+	}
+	cols, _ := r.design(parents)
+	if out.res.FoldPaths == nil && r.total != nil && p.role == gaussian {
+		return r.refitScoreMoments(p, cols), nil
+	}
+	x := make([][]float64, len(cols))
+	for t, c := range cols {
+		x[t] = r.cols[c]
+	}
+	pred := make([][]float64, out.folds.K)
+	ys := make([][]float64, out.folds.K)
+	for f := range out.folds.K {
+		train, held := out.folds.Split(f, out.rows)
+		fit, err := refit.Regress(ctx, p.family, x, p.y, train)
+		if err != nil {
+			return Score{}, err
+		}
+		for _, i := range held {
+			eta := fit.Intercept
+			for t, c := range x {
+				eta += fit.Coef[t] * c[i]
+			}
+			pred[f] = append(pred[f], p.family.Mean(eta))
+			ys[f] = append(ys[f], p.y[i])
+		}
+	}
+	return rowScore(p, pred, ys), nil
+}
+
+// rowScore scores held-out predictions by fold: fold-averaged AUC for
+// binary nodes; for others 1 − mean loss / mean loss of the overall mean
+// (squared error for Gaussian nodes, unit deviance otherwise), with the
+// standard error of the rows' losses.
+func rowScore(p *nodePlan, pred, y [][]float64) Score {
+	s := Score{Measure: scoreName(p.role), Value: nan(), SE: nan()}
+	if p.role == binomial {
+		a, se := foldAUC(pred, y)
+		s.Value, s.SE = Number(a), Number(se)
 		return s
 	}
+	all, yy := slices.Concat(pred...), slices.Concat(y...)
+	mean, _ := meanVar(yy, nil)
+	loss := p.family.Deviance
+	var l, l2, null float64
+	for i, v := range yy {
+		e := loss(v, all[i])
+		l += e
+		l2 += e * e
+		null += loss(v, mean)
+	}
+	n := float64(len(yy))
+	if null <= 0 || n < 2 || math.IsNaN(l) {
+		return s
+	}
+	m := l / n
+	sd := math.Sqrt(math.Max(l2/n-m*m, 0))
+	s.Value = Number(1 - l/null)
+	s.SE = Number(sd / math.Sqrt(n-1) / (null / n))
+	return s
+}
+
+// refitScoreMoments refits a Gaussian node on the design columns cols of
+// its parents from each training fold's moments (the total less the fold)
+// and scores the fold's held-out rows from the fold's moments: R² = 1 −
+// CV mean squared error / variance, with the standard error of the fold
+// values (the folds are random here).
+func (r *run) refitScoreMoments(p *nodePlan, cols []int) Score {
+	vars := append(slices.Clone(cols), r.d.Terms(p.v)[0])
+	total := restrict(r.total, nil, vars)
+	k := len(cols)
+	vy := total.Covariance(k, k)
+	mse := make([]float64, len(r.held))
+	for f, h := range r.held {
+		held := restrict(h, nil, vars)
+		train := restrict(r.total, h, vars)
+		fit := refit.LeastSquares(train, int(math.Round(train.Weight)))
+		mse[f] = heldOutSSE(held, fit) / held.Weight
+	}
+	var s, ss float64
+	for _, e := range mse {
+		s += e
+	}
+	m := s / float64(len(mse))
+	for _, e := range mse {
+		ss += (e - m) * (e - m)
+	}
+	se := math.Sqrt(ss/float64(len(mse)-1)) / math.Sqrt(float64(len(mse)))
+	return Score{Measure: "r2", Value: Number(1 - m/vy), SE: Number(se / vy)}
+}
+
+// restrict returns the moments of the variables vars taken from a, less b
+// when b is not nil (a and b share their shift).
+func restrict(a, b *lasso.Moments, vars []int) *lasso.Moments {
+	shift := make([]float64, len(vars))
+	for t, v := range vars {
+		shift[t] = a.Shift[v]
+	}
+	m := lasso.NewMoments(shift)
+	m.Weight = a.Weight
+	if b != nil {
+		m.Weight -= b.Weight
+	}
+	q := a.Vars
+	for t, v := range vars {
+		m.Sum[t] = a.Sum[v]
+		if b != nil {
+			m.Sum[t] -= b.Sum[v]
+		}
+		for u, w := range vars {
+			c := a.Cross[v*q+w]
+			if b != nil {
+				c -= b.Cross[v*q+w]
+			}
+			m.Cross[t*len(vars)+u] = c
+		}
+	}
+	return m
+}
+
+// heldOutSSE returns Σw(y − ŷ)² over the rows whose moments are h (the
+// predictors first, the response last), for the predictions of fit.
+func heldOutSSE(h *lasso.Moments, fit refit.Fit) float64 {
+	k := h.Vars - 1
+	q := h.Vars
+	// u = (y − s_y) − Σ b_j (x_j − s_j); the residual is u − c.
+	c := fit.Intercept - h.Shift[k]
+	uu := h.Cross[k*q+k]
+	u := h.Sum[k]
+	for j, b := range fit.Coef {
+		c += b * h.Shift[j]
+		uu -= 2 * b * h.Cross[j*q+k]
+		u -= b * h.Sum[j]
+		for l, b2 := range fit.Coef {
+			uu += b * b2 * h.Cross[j*q+l]
+		}
+	}
+	return uu - 2*c*u + c*c*h.Weight
 }

@@ -45,23 +45,10 @@ func Regress(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, 
 	if err := m.Accumulate(local, nil, rows); err != nil {
 		return Fit{}, err
 	}
-	f := Fit{Coef: make([]float64, k), SE: make([]float64, k), SD: make([]float64, k+1), Quantile: z975}
-	for t := range f.SD {
-		f.SD[t] = math.Sqrt(math.Max(m.Covariance(t, t), 0))
-	}
-	for t := range f.SE {
-		f.SE[t] = math.NaN()
-	}
 	if _, ok := fam.(lasso.Gaussian); ok {
-		f.Intercept = m.Mean(k)
-		if k > 0 {
-			f.leastSquares(m, n)
-		}
-		if n-k-1 > 0 {
-			f.Quantile = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - k - 1)}.Quantile(0.975)
-		}
-		return f, nil
+		return LeastSquares(m, n), nil
 	}
+	f := newFit(m)
 	f.Intercept = fam.Link(m.Mean(k))
 	if k > 0 {
 		if err := f.fitGLM(ctx, fam, x, y, rows); err != nil {
@@ -69,6 +56,37 @@ func Regress(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, 
 		}
 	}
 	return f, nil
+}
+
+// newFit returns a fit of the moments' last variable on the others with
+// the spreads filled in, no coefficient estimated and normal intervals.
+func newFit(m *lasso.Moments) Fit {
+	k := m.Vars - 1
+	f := Fit{Coef: make([]float64, k), SE: make([]float64, k), SD: make([]float64, k+1), Quantile: z975}
+	for t := range f.SD {
+		f.SD[t] = math.Sqrt(math.Max(m.Covariance(t, t), 0))
+	}
+	for t := range f.SE {
+		f.SE[t] = math.NaN()
+	}
+	return f
+}
+
+// LeastSquares fits the last variable of m on the others by least squares
+// from the moments alone, for n rows (n sets the degrees of freedom of the
+// standard errors and of the Student's t intervals, n − k − 1). Collinear
+// predictors give NaN coefficients and a warning.
+func LeastSquares(m *lasso.Moments, n int) Fit {
+	k := m.Vars - 1
+	f := newFit(m)
+	f.Intercept = m.Mean(k)
+	if k > 0 {
+		f.leastSquares(m, n)
+	}
+	if n-k-1 > 0 {
+		f.Quantile = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - k - 1)}.Quantile(0.975)
+	}
+	return f
 }
 
 // leastSquares solves the normal equations from the moments m of the k
