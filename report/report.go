@@ -88,7 +88,7 @@ type network struct {
 	Boxes         []boxView
 	Edges         []edgeView
 	Links         []linkView
-	BoxW, BoxH    float64
+	BoxW          float64
 }
 
 type tierView struct {
@@ -97,22 +97,22 @@ type tierView struct {
 }
 
 type boxView struct {
-	ID      int
-	X, Y    float64 // top-left
-	CX, CY  float64
-	Name    string // full name
-	Short   string // shown
-	Kind    string
-	Score   string
-	ScoreW  float64 // width of the score bar
-	BarX    float64
-	BarY    float64
-	Anchor  string
-	Fitted  bool
-	Parents int
+	ID     int
+	X, Y   float64 // top-left
+	H      float64 // height
+	TextY  float64 // baseline of the name
+	Name   string  // full name
+	Short  string  // shown
+	Kind   string
+	Score  string
+	ScoreW float64 // width of the score bar
+	BarX   float64
+	BarY   float64
+	Anchor string
 }
 
 type edgeView struct {
+	K        int
 	From, To int
 	D        string
 	Class    string
@@ -186,10 +186,21 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		}
 		pairs = append(pairs, [2]int{a, b})
 	}
-	lay := LayoutGraph(tier, pairs)
+	var links [][2]int
+	for _, l := range res.Links {
+		a, ok1 := index[l.A]
+		b, ok2 := index[l.B]
+		if !ok1 || !ok2 {
+			return nil, fmt.Errorf("report: link %s — %s names an unknown node", l.A, l.B)
+		}
+		links = append(links, [2]int{a, b})
+	}
+	lay, err := LayoutGraph(tier, pairs, links)
+	if err != nil {
+		return nil, err
+	}
 	v := &view{Title: o.Title, Generated: o.Generated.UTC().Format("2006-01-02 15:04 UTC"), Res: res, Blankets: map[string][]int{}}
-	net := network{Width: lay.Width, Height: lay.Height + 22, BoxW: lay.BoxWidth, BoxH: lay.BoxHeight}
-	const top = 22 // room for tier labels
+	net := network{Width: lay.Width, Height: lay.Height, BoxW: lay.BoxWidth}
 	cols := 0
 	for _, t := range tier {
 		cols = max(cols, t+1)
@@ -199,13 +210,12 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		if res.Order != nil && c < len(res.Order.Labels) && res.Order.Labels[c] != "" {
 			label = fmt.Sprintf("%d · %s", c+1, res.Order.Labels[c])
 		}
-		x := margin + float64(c)*(boxWidth+colGap) - 12
-		net.Tiers = append(net.Tiers, tierView{X: x, Width: boxWidth + 24, Height: lay.Height + top - 4, Label: shorten(label, 28)})
+		net.Tiers = append(net.Tiers, tierView{X: colLeft(c) - 12, Width: boxWidth + 24, Height: lay.Height - 8, Label: shorten(label, 24)})
 	}
 	for i, n := range res.Nodes {
-		p := lay.Pos[i]
-		b := boxView{ID: i, CX: p.X, CY: p.Y + top, X: p.X - boxWidth/2, Y: p.Y + top - boxHeight/2,
-			Name: n.Name, Short: shorten(n.Name, 22), Kind: n.Kind.String(), Anchor: fmt.Sprintf("node-%d", i), Fitted: n.Fitted, Parents: len(n.Parents)}
+		p, h := lay.Pos[i], lay.Heights[i]
+		b := boxView{ID: i, X: p.X - boxWidth/2, Y: p.Y - h/2, H: h, TextY: p.Y - 5, Name: n.Name, Short: shorten(n.Name, 20),
+			Kind: n.Kind.String(), Anchor: fmt.Sprintf("node-%d", i)}
 		switch {
 		case !n.Fitted && len(n.Candidates) == 0:
 			b.Score = "first tier"
@@ -222,7 +232,7 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 			b.ScoreW = clamp01(float64(n.Score.Value))
 		}
 		b.ScoreW *= boxWidth - 16
-		b.BarX, b.BarY = b.X+8, b.Y+boxHeight-8
+		b.BarX, b.BarY = b.X+8, b.Y+h-8
 		net.Boxes = append(net.Boxes, b)
 		var mb []int
 		for _, m := range n.MarkovBlanket {
@@ -231,12 +241,7 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		v.Blankets[fmt.Sprint(i)] = mb
 	}
 	for k, e := range res.Edges {
-		a, b := pairs[k][0], pairs[k][1]
-		pa, pb := net.Boxes[a], net.Boxes[b]
-		x1, y1 := pa.CX+boxWidth/2, pa.CY
-		x2, y2 := pb.CX-boxWidth/2-6, pb.CY
-		dx := (x2 - x1) / 2.2
-		ev := edgeView{From: a, To: b, D: fmt.Sprintf("M%.1f,%.1f C%.1f,%.1f %.1f,%.1f %.1f,%.1f", x1, y1, x1+dx, y1, x2-dx, y2, x2, y2)}
+		ev := edgeView{K: k, From: pairs[k][0], To: pairs[k][1], D: lay.Edges[k].Path()}
 		ev.Class = "pos"
 		if e.Sign < 0 {
 			ev.Class = "neg"
@@ -251,13 +256,9 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		ev.Title = edgeTitle(e)
 		net.Edges = append(net.Edges, ev)
 	}
-	for _, l := range res.Links {
-		a, b := index[l.A], index[l.B]
-		pa, pb := net.Boxes[a], net.Boxes[b]
-		x := pa.CX + boxWidth/2
-		bulge := 34 + math.Abs(pb.CY-pa.CY)/6
-		net.Links = append(net.Links, linkView{A: a, B: b, Title: l.A + " — " + l.B + " (same tier, undirected)",
-			D: fmt.Sprintf("M%.1f,%.1f Q%.1f,%.1f %.1f,%.1f", x, pa.CY, x+bulge, (pa.CY+pb.CY)/2, x, pb.CY)})
+	for k, l := range res.Links {
+		net.Links = append(net.Links, linkView{A: links[k][0], B: links[k][1], Title: l.A + " — " + l.B + " (same tier, undirected)",
+			D: lay.Links[k].Path()})
 	}
 	v.Net = net
 	for i := range res.Nodes {

@@ -85,6 +85,28 @@ func TestStructure(t *testing.T) {
 	}
 }
 
+// TestDemoRoutesClearBoxes is the geometric check of the demonstration's
+// drawing as the page carries it: every edge path, sampled finely, keeps
+// at least report.ClearMargin units from every box but its two ends, and
+// runs left to right from its parent's right side to its child's left side.
+func TestDemoRoutesClearBoxes(t *testing.T) {
+	html, res := demoReport(t)
+	clear, where, faults, paths, err := report.CheckPage(string(html))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if paths != len(res.Edges)+len(res.Links) {
+		t.Errorf("read %d paths for %d edges and %d links", paths, len(res.Edges), len(res.Links))
+	}
+	for _, f := range faults {
+		t.Error(f)
+	}
+	if clear < report.ClearMargin {
+		t.Errorf("%s (margin %d)", where, report.ClearMargin)
+	}
+	t.Logf("least clearance between an edge and a box it does not join: %.2f units", clear)
+}
+
 // hostileResult discovers a small network whose variable names try to
 // break out of the page.
 func hostileResult(t *testing.T) *antecedent.Result {
