@@ -290,3 +290,26 @@ func TestTickLabels(t *testing.T) {
 		}
 	}
 }
+
+// TestPenaltyTicks checks the penalty axis on ranges worked by hand.
+func TestPenaltyTicks(t *testing.T) {
+	cases := []struct {
+		lo, hi float64
+		want   []string
+	}{
+		{0.04, 0.6, []string{"0.05", "0.1", "0.2", "0.5"}},
+		{0.003, 0.6, []string{"0.003", "0.01", "0.03", "0.1", "0.3"}},
+		{1e-4, 2, []string{"0.0001", "0.001", "0.01", "0.1", "1"}},
+		{3e-9, 5, []string{"1e-8", "1e-6", "0.0001", "0.01", "1"}},
+		{0.5, 0.5, []string{"0.5"}},
+	}
+	for _, c := range cases {
+		var got []string
+		for _, v := range logTicks(c.lo, c.hi) {
+			got = append(got, penaltyLabel(v))
+		}
+		if !slices.Equal(got, c.want) {
+			t.Errorf("logTicks(%g, %g) = %v, want %v", c.lo, c.hi, got, c.want)
+		}
+	}
+}

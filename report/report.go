@@ -12,6 +12,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
 	"github.com/antecedent-lab/antecedent/metrics"
 )
@@ -332,7 +333,7 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		nv.Effects = append(nv.Effects, ev)
 	}
 	if len(n.Curve) > 1 {
-		nv.CV = cvChart(n)
+		nv.CV = cvChart(n, fmt.Sprintf("cv-%d", i))
 	}
 	if n.Path != nil && len(n.Path.Penalties) > 1 {
 		nv.Path = pathChart(n)
@@ -348,49 +349,222 @@ func fmtNum(x antecedent.Number) string {
 	return fmt.Sprintf("%.3g", f)
 }
 
-func cvChart(n *antecedent.Node) *chart {
-	c := newChart("−log penalty", "CV "+n.Measure.String())
-	var xs, ys, lo, hi []float64
+// measureName names a cross-validation measure for a chart's axis.
+func measureName(m cv.Measure) string {
+	switch m {
+	case cv.Deviance, cv.DefaultMeasure:
+		return "deviance"
+	case cv.MeanSquaredError:
+		return "squared error"
+	case cv.MeanAbsoluteError:
+		return "absolute error"
+	case cv.AreaUnderCurve:
+		return "AUC"
+	case cv.Misclassification:
+		return "misclassified share"
+	}
+	return m.String()
+}
+
+// nearest returns the index of the positive penalty in ps closest to p on
+// a log scale, or -1.
+func nearest(ps []float64, p float64) int {
+	k := -1
+	if !(p > 0) || !finite(p) {
+		return k
+	}
+	best := math.Inf(1)
+	for i, q := range ps {
+		if d := math.Abs(math.Log(q / p)); q > 0 && d < best {
+			k, best = i, d
+		}
+	}
+	return k
+}
+
+func parentCount(k int) string {
+	switch k {
+	case 0:
+		return "no parents"
+	case 1:
+		return "1 parent"
+	}
+	return fmt.Sprintf("%d parents", k)
+}
+
+// cvChart draws the cross-validation curve against the penalty: the
+// uncertainty as a band of ±1 standard error, the chosen penalty as one
+// labelled point on the curve giving the number of parents there, and,
+// under the one-SE rule, the lowest point and the level within one
+// standard error of it that the choice had to reach. When the strong end
+// of the curve rises far beyond the region of the choice, the value axis
+// is cut to that region and the curve leaves the plot at the top.
+func cvChart(n *antecedent.Node, id string) *chart {
+	var pen, lx, ys, lo, hi []float64
 	for _, p := range n.Curve {
-		xs = append(xs, -math.Log(float64(p.Penalty)))
-		ys = append(ys, float64(p.Mean))
-		lo = append(lo, float64(p.Mean)-float64(p.SE))
-		hi = append(hi, float64(p.Mean)+float64(p.SE))
+		l, m := float64(p.Penalty), float64(p.Mean)
+		if !(l > 0) || !finite(l) || !finite(m) {
+			continue
+		}
+		se := float64(p.SE)
+		pen, lx, ys = append(pen, l), append(lx, math.Log10(l)), append(ys, m)
+		lo, hi = append(lo, m-se), append(hi, m+se)
+	}
+	if len(pen) < 2 {
+		return nil
 	}
 	ymin, ymax := math.Inf(1), math.Inf(-1)
 	for i := range ys {
-		for _, y := range []float64{lo[i], hi[i]} {
+		for _, y := range []float64{lo[i], ys[i], hi[i]} {
 			if finite(y) {
 				ymin, ymax = math.Min(ymin, y), math.Max(ymax, y)
 			}
 		}
 	}
-	if !finite(ymin) {
-		return nil
+	larger := n.Measure == cv.AreaUnderCurve
+	chosen := nearest(pen, float64(n.Penalty))
+	best := nearest(pen, float64(n.BestPenalty))
+	c := newChart("held-out " + measureName(n.Measure))
+	c.ID = id
+	if chosen >= 0 && best >= 0 {
+		// Keep the worse side of the choice within 2.5 times the choice's
+		// distance from the best edge of the band.
+		const reach = 2.5
+		if larger {
+			key := math.Min(ys[chosen], finiteOr(lo[best], ys[best]))
+			if floor := key - reach*(ymax-key); floor > ymin {
+				ymin, c.Clipped = floor, true
+			}
+		} else {
+			key := math.Max(ys[chosen], finiteOr(hi[best], ys[best]))
+			if ceil := key + reach*(key-ymin); ceil < ymax {
+				ymax, c.Clipped = ceil, true
+			}
+		}
 	}
-	sx, sy := c.axes(xs[0], xs[len(xs)-1], ymin, ymax)
-	for i := range xs {
+	sx, sy := c.axes(slices.Min(pen), slices.Max(pen), ymin, ymax)
+	var upper, lower []string
+	for i := range lx {
 		if finite(lo[i]) && finite(hi[i]) {
-			c.Bars = append(c.Bars, bar{sx.at(xs[i]), sy.at(lo[i]), sy.at(hi[i])})
+			upper = append(upper, fmt.Sprintf("%.1f,%.1f", sx.at(lx[i]), sy.at(hi[i])))
+			lower = append(lower, fmt.Sprintf("%.1f,%.1f", sx.at(lx[i]), sy.at(lo[i])))
 		}
 	}
-	c.Series = append(c.Series, series{Points: points(sx, sy, xs, ys), Class: "cv"})
-	add := func(pen antecedent.Number, name, class string, y float64) {
-		if f := float64(pen); finite(f) && f > 0 {
-			c.Marks = append(c.Marks, c.mark(sx.at(-math.Log(f)), name, class, y))
+	slices.Reverse(lower)
+	c.Band = strings.Join(append(upper, lower...), " ")
+	c.Lines = append(c.Lines, series{Points: points(sx, sy, lx, ys), Class: "cv"})
+
+	better := "lower is better"
+	if larger {
+		better = "higher is better"
+	}
+	switch n.Rule {
+	case cv.OneStandardError:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds. One-SE rule: the strongest penalty within one standard error of the best (open circle), shown by the level line.",
+			measureName(n.Measure), better)
+	case cv.MinimumLoss:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds. Minimum rule: the penalty with the best held-out %s.",
+			measureName(n.Measure), better, measureName(n.Measure))
+	default:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds.", measureName(n.Measure), better)
+	}
+	if chosen < 0 {
+		return c
+	}
+	x, y := sx.at(lx[chosen]), sy.at(ys[chosen])
+	key := c.place(x, y, "chosen: "+parentCount(len(n.Parents)), larger, true)
+	key.Class = "key"
+	if best >= 0 && best != chosen {
+		// The level the one-SE rule compared with: the best mean plus (or
+		// minus) its standard error.
+		lvl := hi[best]
+		if larger {
+			lvl = lo[best]
+		}
+		if finite(lvl) {
+			c.Rule = &segment{X1: sx.at(lx[best]), X2: x, Y: sy.at(lvl)}
+		}
+		bx, by := sx.at(lx[best]), sy.at(ys[best])
+		c.Dots = append(c.Dots, dot{X: bx, Y: by, Class: "lowest"})
+		name := "lowest"
+		if larger {
+			name = "highest"
+		}
+		for _, try := range [][2]bool{{!larger, true}, {!larger, false}, {larger, true}, {larger, false}} {
+			l := c.place(bx, by, name, try[0], try[1])
+			if !l.overlaps(key) && l.inside(c) {
+				l.Class = "muted"
+				c.Labels = append(c.Labels, l)
+				break
+			}
 		}
 	}
-	add(n.BestPenalty, "minimum", "best", c.Top+10)
-	add(n.OneSEPenalty, "one SE", "onese", c.Top+22)
+	c.Dots = append(c.Dots, dot{X: x, Y: y, Class: "chosen"})
+	c.Labels = append(c.Labels, key)
 	return c
 }
 
+func finiteOr(v, alt float64) float64 {
+	if finite(v) {
+		return v
+	}
+	return alt
+}
+
+// place returns a label for the point (x, y): below or above it, to its
+// right or left; a label that would leave the plot moves to the other
+// side of x, or of y.
+func (c *chart) place(x, y float64, text string, below, right bool) chartLabel {
+	l := chartLabel{X: x + 6, Text: text, Anchor: "start"}
+	if !right || x+6+textWidth(text) > c.Left+c.PlotW {
+		l.X, l.Anchor = x-6, "end"
+		if x-6-textWidth(text) < c.Left {
+			l.X, l.Anchor = x+6, "start"
+		}
+	}
+	l.Y = y - 8
+	if below && y+16 <= c.Top+c.PlotH-2 || !below && y-18 < c.Top {
+		l.Y = y + 16
+	}
+	return l
+}
+
+// box returns the extent of a label's text, estimated.
+func (l chartLabel) box() (x0, y0, x1, y1 float64) {
+	w := textWidth(l.Text)
+	x0 = l.X
+	if l.Anchor == "end" {
+		x0 -= w
+	}
+	return x0, l.Y - 9, x0 + w, l.Y + 2
+}
+
+func (l chartLabel) overlaps(m chartLabel) bool {
+	ax0, ay0, ax1, ay1 := l.box()
+	bx0, by0, bx1, by1 := m.box()
+	return ax0 < bx1+2 && bx0 < ax1+2 && ay0 < by1+1 && by0 < ay1+1
+}
+
+func (l chartLabel) inside(c *chart) bool {
+	x0, y0, x1, y1 := l.box()
+	return x0 >= c.Left && x1 <= c.Left+c.PlotW+4 && y0 >= c.Top-2 && y1 <= c.Top+c.PlotH
+}
+
+// pathChart draws the coefficient paths of the full-data fit against the
+// penalty. The terms chosen at the selected penalty are drawn in the
+// colour of their sign, marked where they were chosen and labelled there;
+// the other candidates are thin and grey.
 func pathChart(n *antecedent.Node) *chart {
-	c := newChart("−log penalty", "coefficient")
 	p := n.Path
-	xs := make([]float64, len(p.Penalties))
+	var keep []int // penalty indices drawn
+	var pen, lx []float64
 	for k, l := range p.Penalties {
-		xs[k] = -math.Log(float64(l))
+		if f := float64(l); f > 0 && finite(f) {
+			keep, pen, lx = append(keep, k), append(pen, f), append(lx, math.Log10(f))
+		}
+	}
+	if len(pen) < 2 {
+		return nil
 	}
 	ymin, ymax := 0.0, 0.0
 	for _, vals := range p.Values {
@@ -400,40 +574,81 @@ func pathChart(n *antecedent.Node) *chart {
 			}
 		}
 	}
-	sx, sy := c.axes(xs[0], xs[len(xs)-1], ymin, ymax)
-	type ranked struct {
-		t    int
-		size float64
+	c := newChart("coefficient")
+	sx, sy := c.axes(slices.Min(pen), slices.Max(pen), ymin, ymax)
+	chosen := nearest(pen, float64(n.Penalty))
+	picked := map[string]bool{}
+	for _, t := range n.Penalised {
+		picked[t.Term] = true
 	}
-	var order []ranked
+	type mark struct {
+		y    float64
+		name string
+	}
+	var marks []mark
+	var strong []series
 	for t, vals := range p.Values {
-		last := float64(vals[len(vals)-1])
-		order = append(order, ranked{t, math.Abs(last)})
+		if t >= len(p.Terms) {
+			break
+		}
+		ys := make([]float64, len(keep))
+		for i, k := range keep {
+			ys[i] = math.NaN()
+			if k < len(vals) {
+				ys[i] = float64(vals[k])
+			}
+		}
+		s := series{Points: points(sx, sy, lx, ys), Class: "other", Title: p.Terms[t]}
+		if !picked[p.Terms[t]] || chosen < 0 || !finite(ys[chosen]) {
+			c.Lines = append(c.Lines, s)
+			continue
+		}
+		s.Class = "up"
+		if ys[chosen] < 0 {
+			s.Class = "down"
+		}
+		strong = append(strong, s)
+		y := sy.at(ys[chosen])
+		c.Dots = append(c.Dots, dot{X: sx.at(lx[chosen]), Y: y, Class: s.Class})
+		marks = append(marks, mark{y, shorten(p.Terms[t], 22)})
 	}
-	slices.SortFunc(order, func(a, b ranked) int {
+	c.Lines = append(c.Lines, strong...) // chosen paths on top
+	slices.SortStableFunc(marks, func(a, b mark) int {
 		switch {
-		case a.size > b.size:
+		case a.y < b.y:
 			return -1
-		case a.size < b.size:
+		case a.y > b.y:
 			return 1
 		}
-		return a.t - b.t
+		return 0
 	})
-	for rank, r := range order {
-		ys := make([]float64, len(xs))
-		for k, v := range p.Values[r.t] {
-			ys[k] = float64(v)
-		}
-		s := series{Points: points(sx, sy, xs, ys), Class: fmt.Sprintf("c%d", rank%8)}
-		if rank < 5 && r.size > 0 {
-			s.Name = shorten(p.Terms[r.t], 18)
-			s.LabelX = c.Left + c.PlotW - 2
-			s.LabelY = sy.at(ys[len(ys)-1])
-		}
-		c.Series = append(c.Series, s)
+	if room := int(c.PlotH / labelLine); len(marks) > room {
+		marks = marks[:room]
 	}
-	if f := float64(n.Penalty); finite(f) && f > 0 {
-		c.Marks = append(c.Marks, c.mark(sx.at(-math.Log(f)), "selected", "sel", c.Top+10))
+	if len(marks) > 0 {
+		x := sx.at(lx[chosen])
+		var wide float64
+		want := make([]float64, len(marks))
+		for i, m := range marks {
+			want[i] = m.y + 4 // baseline about a third of a line below the point
+			wide = math.Max(wide, textWidth(m.name))
+		}
+		got := stack(want, c.Top+10, c.Top+c.PlotH-2)
+		lab := chartLabel{X: x + 14, Anchor: "start"}
+		if x+14+wide > c.Left+c.PlotW {
+			lab.X, lab.Anchor = x-14, "end"
+		}
+		for i, m := range marks {
+			l := lab
+			l.Y, l.Text, l.Class = got[i], m.name, "key"
+			l.Leader, l.LX, l.LY = true, x, m.y
+			c.Labels = append(c.Labels, l)
+		}
+	}
+	c.Caption = "Each candidate term's coefficient as the penalty weakens. Coloured and labelled at the chosen penalty: " +
+		"the chosen terms (green positive, orange negative); grey: not chosen."
+	if len(marks) == 0 {
+		c.Caption = "Each candidate term's coefficient as the penalty weakens; none is chosen at the selected penalty."
 	}
 	return c
 }

@@ -69,10 +69,11 @@ func TestStructure(t *testing.T) {
 		}
 	}
 	// Two charts (CV curve and coefficient paths) per fitted node.
-	if n := count(`<svg class="chart"`); n != 2*fitted {
+	if n := count(`<figure class="chart">`); n != 2*fitted {
 		t.Errorf("%d charts for %d fitted nodes", n, fitted)
 	}
-	for _, want := range []string{"hypothesis", "confounding", "clinical judgement", "Markov blanket", "precision / recall", "one SE", "minimum"} {
+	for _, want := range []string{"hypothesis", "confounding", "clinical judgement", "Markov blanket", "precision / recall",
+		"One-SE rule", "±1 standard error", "chosen: ", "penalty, log scale", "◂ stronger"} {
 		if !strings.Contains(s, want) {
 			t.Errorf("report lacks %q", want)
 		}
