@@ -271,6 +271,30 @@ func TestSpread(t *testing.T) {
 	}
 }
 
+// TestFocusSets checks what focusing a node lights, on a graph worked by
+// hand: d→a, d→b, a→c, b→c, c→e. Focusing a lights d→a (parent), a→c
+// (child) and b→c (co-parent b into the shared child), but not d→b, although
+// d and b are both in a's Markov blanket, nor c→e.
+func TestFocusSets(t *testing.T) {
+	const a, b, c, d, e = 0, 1, 2, 3, 4
+	edges := [][2]int{{d, a}, {d, b}, {a, c}, {b, c}, {c, e}}
+	links := [][2]int{{a, b}}
+	f := focusSets(5, edges, links)["0"]
+	if want := []int{0, 2, 3}; !slices.Equal(f.E, want) {
+		t.Errorf("focusing a lights edges %v, want %v", f.E, want)
+	}
+	if want := []int{b, c, d}; !slices.Equal(f.N, want) {
+		t.Errorf("focusing a lights nodes %v, want %v", f.N, want)
+	}
+	if want := []int{0}; !slices.Equal(f.L, want) {
+		t.Errorf("focusing a lights links %v, want %v", f.L, want)
+	}
+	// e has one parent and no children: only c→e.
+	if f := focusSets(5, edges, links)["4"]; !slices.Equal(f.E, []int{4}) || !slices.Equal(f.N, []int{c}) {
+		t.Errorf("focusing e lights edges %v and nodes %v, want [4] and [2]", f.E, f.N)
+	}
+}
+
 func TestTickLabels(t *testing.T) {
 	cases := []struct {
 		lo, hi float64

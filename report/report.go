@@ -44,7 +44,9 @@ var page = template.Must(template.New("report").Funcs(template.FuncMap{
 
 // Options configures Write. A nil *Options gives the defaults.
 type Options struct {
-	// Title heads the page; empty means "Causal network report".
+	// Title heads the page; empty means "Discovered network". The page
+	// states below it that the network is a hypothesis, not established
+	// cause and effect.
 	Title string
 	// Truth, when set, is a known true graph (for simulated data) that the
 	// summary compares the result with.
@@ -60,7 +62,7 @@ func Write(w io.Writer, res *antecedent.Result, opts *Options) error {
 		o = *opts
 	}
 	if o.Title == "" {
-		o.Title = "Causal network report"
+		o.Title = "Discovered network"
 	}
 	if o.Generated.IsZero() {
 		o.Generated = time.Now()
@@ -79,17 +81,34 @@ type view struct {
 	Net       network
 	Nodes     []nodeView
 	Summary   summary
-	Blankets  map[string][]int
+	Focus     map[string]focus
 	Cautions  []string
 }
 
 type network struct {
 	Width, Height float64
-	Tiers         []tierView
-	Boxes         []boxView
-	Edges         []edgeView
-	Links         []linkView
-	BoxW          float64
+	// MinWidth is the narrowest the drawing is shown before the page
+	// scrolls it sideways: its text never shrinks below 11 px.
+	MinWidth float64
+	Tiers    []tierView
+	Boxes    []boxView
+	Edges    []edgeView
+	Links    []linkView
+	BoxW     float64
+}
+
+// minScale is the smallest scale the network is drawn at: the smallest
+// text in it, 13 units, then shows at 11 px.
+const minScale = 11.0 / 13
+
+// focus lists what focusing a node lights: its Markov blanket (N) and the
+// edges of its own relations (E, indices into the result's edges): to its
+// parents, to its children, and from its children's other parents to
+// those children; and its same-tier links (L).
+type focus struct {
+	N []int `json:"n"`
+	E []int `json:"e"`
+	L []int `json:"l"`
 }
 
 type tierView struct {
@@ -200,8 +219,8 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 	if err != nil {
 		return nil, err
 	}
-	v := &view{Title: o.Title, Generated: o.Generated.UTC().Format("2006-01-02 15:04 UTC"), Res: res, Blankets: map[string][]int{}}
-	net := network{Width: lay.Width, Height: lay.Height, BoxW: lay.BoxWidth}
+	v := &view{Title: o.Title, Generated: o.Generated.UTC().Format("2006-01-02 15:04 UTC"), Res: res}
+	net := network{Width: lay.Width, Height: lay.Height, BoxW: lay.BoxWidth, MinWidth: math.Min(lay.Width, lay.Width*minScale)}
 	cols := 0
 	for _, t := range tier {
 		cols = max(cols, t+1)
@@ -223,23 +242,18 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		case !n.Fitted:
 			b.Score = "not fitted"
 		case n.Score.Measure == "auc":
-			b.Score = fmt.Sprintf("AUC %.2f", float64(n.Score.Value))
+			b.Score = "AUC " + fixed2(float64(n.Score.Value))
 			b.ScoreW = clamp01((float64(n.Score.Value) - 0.5) / 0.5)
 		case n.Score.Measure == "r2":
-			b.Score = fmt.Sprintf("R² %.2f", float64(n.Score.Value))
+			b.Score = "R² " + fixed2(float64(n.Score.Value))
 			b.ScoreW = clamp01(float64(n.Score.Value))
 		default:
-			b.Score = fmt.Sprintf("%.2f explained", float64(n.Score.Value))
+			b.Score = fixed2(float64(n.Score.Value)) + " explained"
 			b.ScoreW = clamp01(float64(n.Score.Value))
 		}
 		b.ScoreW *= boxWidth - 16
 		b.BarX, b.BarY = b.X+8, b.Y+h-8
 		net.Boxes = append(net.Boxes, b)
-		var mb []int
-		for _, m := range n.MarkovBlanket {
-			mb = append(mb, index[m])
-		}
-		v.Blankets[fmt.Sprint(i)] = mb
 	}
 	for k, e := range res.Edges {
 		ev := edgeView{K: k, From: pairs[k][0], To: pairs[k][1], D: lay.Edges[k].Path()}
@@ -261,6 +275,7 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		net.Links = append(net.Links, linkView{A: links[k][0], B: links[k][1], Title: l.A + " — " + l.B + " (same tier, undirected)",
 			D: lay.Links[k].Path()})
 	}
+	v.Focus = focusSets(len(res.Nodes), pairs, links)
 	v.Net = net
 	for i := range res.Nodes {
 		v.Nodes = append(v.Nodes, nodeSection(res, i))
@@ -273,6 +288,66 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		"It does not replace clinical judgement, local rules and approvals, or review by licensed statisticians and clinicians.",
 	}
 	return v, nil
+}
+
+// focusSets returns, for each node of a graph with n nodes, edges and
+// same-tier links, what focusing it lights.
+func focusSets(n int, edges, links [][2]int) map[string]focus {
+	parents := make([][]int, n)
+	children := make([][]int, n)
+	into := make([][]int, n) // edge indices into each node
+	for k, e := range edges {
+		parents[e[1]] = append(parents[e[1]], e[0])
+		children[e[0]] = append(children[e[0]], e[1])
+		into[e[1]] = append(into[e[1]], k)
+	}
+	out := make(map[string]focus, n)
+	for i := range n {
+		var f focus
+		nodes := map[int]bool{}
+		for k, e := range edges {
+			if e[0] == i || e[1] == i {
+				f.E = append(f.E, k)
+			}
+		}
+		for _, p := range parents[i] {
+			nodes[p] = true
+		}
+		for _, c := range children[i] {
+			nodes[c] = true
+			for _, k := range into[c] {
+				if p := edges[k][0]; p != i {
+					f.E = append(f.E, k)
+					nodes[p] = true
+				}
+			}
+		}
+		for k, l := range links {
+			if l[0] == i || l[1] == i {
+				f.L = append(f.L, k)
+				nodes[l[0]], nodes[l[1]] = true, true
+			}
+		}
+		delete(nodes, i)
+		for j := range n {
+			if nodes[j] {
+				f.N = append(f.N, j)
+			}
+		}
+		slices.Sort(f.E)
+		out[fmt.Sprint(i)] = f
+	}
+	return out
+}
+
+// fixed2 formats x with two decimals, without a minus sign on a value
+// that rounds to zero.
+func fixed2(x float64) string {
+	s := fmt.Sprintf("%.2f", x)
+	if s == "-0.00" {
+		return "0.00"
+	}
+	return s
 }
 
 func clamp01(x float64) float64 {
