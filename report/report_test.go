@@ -42,7 +42,7 @@ func demoReport(t *testing.T) ([]byte, *antecedent.Result) {
 			return
 		}
 		var b bytes.Buffer
-		demoErr = report.Write(&b, demoRes, &report.Options{Title: "Demo", Truth: g, Generated: time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)})
+		demoErr = report.Write(&b, demoRes, &report.Options{Title: "Recovery after joint replacement — synthetic demonstration", Truth: g, Generated: time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)})
 		demoHTML = b.Bytes()
 	})
 	if demoErr != nil {
@@ -298,6 +298,9 @@ func notBlank(t *testing.T, img image.Image) {
 	}
 }
 
+// TestBrowserDemo opens the demonstration report. Run with
+// ANTECEDENT_SCREENSHOT_DIR=docs it rewrites the README's screenshots,
+// docs/report.png here and docs/random30.png in TestBrowserRandom30.
 func TestBrowserDemo(t *testing.T) {
 	html, _ := demoReport(t)
 	_, img := openPage(t, "demo.html", html, 1400, 1000, "")
@@ -396,6 +399,54 @@ func TestBrowserFocus(t *testing.T) {
 	if len(children) == 0 || len(want) == len(children) {
 		t.Errorf("the demonstration no longer tests co-parents: %d children, %d edges lit", len(children), len(want))
 	}
+}
+
+// TestBrowserRandom30 draws a network discovered on a random model of 30
+// variables in five tiers (package simulate, seeded), opens it in a
+// browser, and checks the drawing geometrically as for the demonstration.
+func TestBrowserRandom30(t *testing.T) {
+	if testing.Short() {
+		t.Skip("discovers a 30-variable network")
+	}
+	m, o, err := simulate.Random(simulate.RandomSettings{Variables: 30, Tiers: 5, BinaryShare: 0.3}, 30)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := m.Sample(2000, 30)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := antecedent.NewDataset(s.Names, s.Columns)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Folds: 5, Seed: 30})
+	if err != nil {
+		t.Fatal(err)
+	}
+	truth, err := m.Graph()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	opts := &report.Options{Title: "Random network of 30 variables — simulated", Truth: truth, Generated: time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)}
+	if err := report.Write(&b, res, opts); err != nil {
+		t.Fatal(err)
+	}
+	clear, where, faults, _, err := report.CheckPage(b.String())
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range faults {
+		t.Error(f)
+	}
+	if clear < report.ClearMargin {
+		t.Errorf("%s (margin %d)", where, report.ClearMargin)
+	}
+	t.Logf("%d edges; least clearance %.2f units", len(res.Edges), clear)
+	_, img := openPage(t, "random30.html", b.Bytes(), 1400, 1600, "")
+	notBlank(t, img)
+	saveShot(t, img, "random30.png")
 }
 
 func TestBrowserHostileNames(t *testing.T) {
