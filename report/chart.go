@@ -4,21 +4,39 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
+	"unicode/utf8"
 )
 
-// chart is a small line chart ready for the template: every coordinate is
-// precomputed, every label is plain text the template escapes.
+// chart is a small chart against the penalty, ready for the template:
+// every coordinate is precomputed, every label is plain text the template
+// escapes. The penalty axis is logarithmic with the strong end on the
+// left, so reading left to right the model grows.
 type chart struct {
 	Width, Height float64
 	Left, Top     float64 // plot area origin
 	PlotW, PlotH  float64
 	XTicks        []tick
 	YTicks        []tick
-	Series        []series
-	Bars          []bar
-	Marks         []mark
 	XLabel        string
 	YLabel        string
+	// Strong and Weak caption the two ends of the penalty axis.
+	Strong, Weak string
+	// ZeroY is the height of a zero line, when HasZero.
+	ZeroY   float64
+	HasZero bool
+	// Band is the polygon of an uncertainty band, empty when none.
+	Band   string
+	Lines  []series
+	Rule   *segment
+	Dots   []dot
+	Labels []chartLabel
+	// Caption explains the chart in a sentence or two.
+	Caption string
+	// ID names the chart's clipping region; Clipped is set when the value
+	// axis is cut short and lines must be clipped to the plot.
+	ID      string
+	Clipped bool
 }
 
 type tick struct {
@@ -29,29 +47,36 @@ type tick struct {
 type series struct {
 	Points string // "x,y x,y …"
 	Class  string
-	Name   string
-	LabelX float64
-	LabelY float64
+	Title  string
 }
 
-type bar struct{ X, Y1, Y2 float64 }
+type segment struct{ X1, X2, Y float64 }
 
-type mark struct {
-	X      float64
-	Label  string
+type dot struct {
+	X, Y  float64
+	Class string
+}
+
+// chartLabel is a text label; when Leader is set a thin line joins the
+// point (LX, LY) it names.
+type chartLabel struct {
+	X, Y   float64
+	Text   string
+	Anchor string
 	Class  string
-	LabelY float64
-	Anchor string // text-anchor of the label
-	DX     float64
+	Leader bool
+	LX, LY float64
 }
 
 const (
-	chartW = 300
-	chartH = 200
-	padL   = 52
-	padR   = 14
-	padT   = 14
-	padB   = 38
+	chartW    = 300
+	chartH    = 214
+	padL      = 46
+	padR      = 12
+	padT      = 12
+	padB      = 42
+	labelLine = 13  // vertical distance between stacked labels
+	charW     = 6.2 // average width of a chart label's character
 )
 
 // scale maps [lo, hi] to [a, b].
@@ -64,8 +89,9 @@ func (s scale) at(v float64) float64 {
 	return s.a + (v-s.lo)/(s.hi-s.lo)*(s.b-s.a)
 }
 
-func newChart(xlabel, ylabel string) *chart {
-	return &chart{Width: chartW, Height: chartH, Left: padL, Top: padT, PlotW: chartW - padL - padR, PlotH: chartH - padT - padB, XLabel: xlabel, YLabel: ylabel}
+func newChart(ylabel string) *chart {
+	return &chart{Width: chartW, Height: chartH, Left: padL, Top: padT, PlotW: chartW - padL - padR, PlotH: chartH - padT - padB,
+		XLabel: "penalty, log scale", YLabel: ylabel, Strong: "◂ stronger", Weak: "weaker ▸"}
 }
 
 // ticks returns about n round tick values covering [lo, hi].
@@ -87,6 +113,48 @@ func ticks(lo, hi float64, n int) []float64 {
 		out = append(out, v)
 	}
 	return out
+}
+
+// logTicks returns round penalties in [lo, hi] (both positive): the
+// powers of ten, with 2× and 5× added when the range spans less than one
+// and a half decades and 3× when it spans less than three, and only the
+// even powers when it spans more than six.
+func logTicks(lo, hi float64) []float64 {
+	if !(hi > lo) || !(lo > 0) {
+		return []float64{lo}
+	}
+	span := math.Log10(hi / lo)
+	mults := []float64{1}
+	switch {
+	case span < 1.5:
+		mults = []float64{1, 2, 5}
+	case span < 3:
+		mults = []float64{1, 3}
+	}
+	var out []float64
+	for d := int(math.Floor(math.Log10(lo))); d <= int(math.Ceil(math.Log10(hi))); d++ {
+		if span > 6 && d%2 != 0 {
+			continue
+		}
+		for _, m := range mults {
+			v, _ := strconv.ParseFloat(fmt.Sprintf("%ge%d", m, d), 64) // exact decimal
+			if v >= lo*(1-1e-9) && v <= hi*(1+1e-9) {
+				out = append(out, v)
+			}
+		}
+	}
+	return out
+}
+
+// penaltyLabel formats a round penalty briefly: 0.05, 20, 1e-5.
+func penaltyLabel(v float64) string {
+	if a := math.Abs(v); a >= 1e-4 && a < 1e5 {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	s := strconv.FormatFloat(v, 'e', -1, 64) // "1e-05"
+	m, e, _ := strings.Cut(s, "e")
+	exp, _ := strconv.Atoi(e)
+	return m + "e" + strconv.Itoa(exp)
 }
 
 // label formats a tick value with as many decimals as the tick step needs.
@@ -116,30 +184,35 @@ func step(t []float64) float64 {
 
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// axes sets the scales and ticks for x in [x0, x1] and y in [y0, y1].
-func (c *chart) axes(x0, x1, y0, y1 float64) (scale, scale) {
+// axes sets the scales and ticks for penalties in [pmin, pmax] (positive),
+// strong on the left, and y in [y0, y1].
+func (c *chart) axes(pmin, pmax, y0, y1 float64) (scale, scale) {
 	if y1 == y0 {
 		y0, y1 = y0-1, y1+1
 	}
 	pad := (y1 - y0) * 0.06
 	y0, y1 = y0-pad, y1+pad
-	sx := scale{x0, x1, c.Left, c.Left + c.PlotW}
+	sx := scale{math.Log10(pmax), math.Log10(pmin), c.Left, c.Left + c.PlotW}
 	sy := scale{y0, y1, c.Top + c.PlotH, c.Top}
-	xt := ticks(x0, x1, 5)
-	for _, v := range xt {
-		c.XTicks = append(c.XTicks, tick{sx.at(v), label(v, step(xt))})
+	for _, v := range logTicks(pmin, pmax) {
+		c.XTicks = append(c.XTicks, tick{sx.at(math.Log10(v)), penaltyLabel(v)})
 	}
 	yt := ticks(y0, y1, 4)
 	for _, v := range yt {
 		c.YTicks = append(c.YTicks, tick{sy.at(v), label(v, step(yt))})
 	}
+	if y0 <= 0 && y1 >= 0 {
+		c.ZeroY, c.HasZero = sy.at(0), true
+	}
 	return sx, sy
 }
 
-func points(sx, sy scale, xs, ys []float64) string {
-	b := make([]byte, 0, len(xs)*14)
-	for i, x := range xs {
-		if !finite(ys[i]) {
+// points returns the polyline through (lx[i], ys[i]), lx being log10 of
+// the penalties, skipping non-finite values.
+func points(sx, sy scale, lx, ys []float64) string {
+	b := make([]byte, 0, len(lx)*14)
+	for i, x := range lx {
+		if !finite(ys[i]) || !finite(x) {
 			continue
 		}
 		if len(b) > 0 {
@@ -150,11 +223,35 @@ func points(sx, sy scale, xs, ys []float64) string {
 	return string(b)
 }
 
-// mark returns a vertical marker at x whose label stays inside the plot.
-func (c *chart) mark(x float64, label, class string, y float64) mark {
-	m := mark{X: x, Label: label, Class: class, LabelY: y, Anchor: "start", DX: 3}
-	if x > c.Left+c.PlotW-60 {
-		m.Anchor, m.DX = "end", -3
+// textWidth estimates the width of a chart label.
+func textWidth(s string) float64 { return charW * float64(utf8.RuneCountInString(s)) }
+
+// stack returns label heights as close as possible to want (in order of
+// want, which must be sorted) but at least labelLine apart, kept inside
+// [lo, hi] when they fit.
+func stack(want []float64, lo, hi float64) []float64 {
+	if len(want) == 0 {
+		return nil
 	}
-	return m
+	w := make([]float64, len(want))
+	gap := make([]float64, len(want)-1)
+	for i := range w {
+		w[i] = 1
+	}
+	for i := range gap {
+		gap[i] = labelLine
+	}
+	got := spread(nil, want, w, gap)
+	if d := lo - got[0]; d > 0 {
+		for i := range got {
+			got[i] += d
+		}
+	}
+	if d := got[len(got)-1] - hi; d > 0 {
+		d = math.Min(d, got[0]-lo)
+		for i := range got {
+			got[i] -= d
+		}
+	}
+	return got
 }

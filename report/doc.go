@@ -3,15 +3,24 @@
 // network. It is built with html/template, so every variable name and
 // message is escaped.
 //
-// The page shows the network drawn by time — one column per tier, earliest
-// on the left, nodes ordered by the barycentre heuristic of layered drawing
-// (Sugiyama, Tagawa & Toda 1981) to reduce crossings — with edges as curves
-// whose width shows selection frequency (or effect size without stability
-// selection) and whose style shows the sign of the effect; hovering or
-// focusing a node highlights its Markov blanket. For each node it gives the
-// family, rows used, cross-validated score, selected penalty and rule, the
-// parents' effects with intervals, the cross-validation curve and the
-// coefficient paths; and a summary of the data, settings, timings, the
-// stability bound and the cautions that go with any causal reading of
-// observational data.
+// The page shows the discovered network drawn by time, as layered drawing
+// does it (Sugiyama, Tagawa & Toda 1981): one column per tier, earliest on
+// the left; an edge that skips tiers gets one virtual point, a lane, in
+// each column it crosses, and lanes are ordered with the boxes by the
+// barycentre heuristic to reduce crossings. Edges change height only in the
+// gaps between columns and cross a column only along a lane between its
+// boxes, so no edge passes behind a box. Arrivals and departures are spread
+// along the boxes' sides. Edge width shows selection frequency (or effect
+// size without stability selection) and dashes a negative effect; hovering
+// or focusing a node lights its own relations: its parents, its children
+// and its children's other parents.
+//
+// For each node it gives the family, rows used, cross-validated score,
+// selected penalty and rule, the parents' effects with intervals, and two
+// charts against the penalty (log scale, strong end on the left): the
+// held-out error with a band of ±1 standard error and the chosen penalty
+// as one labelled point, and the coefficient paths with the chosen terms
+// coloured by sign and named where they were chosen. A summary gives the
+// data, settings, timings, the stability bound and the cautions that go
+// with any causal reading of observational data.
 package report

@@ -12,6 +12,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
 )
 
@@ -42,7 +43,9 @@ var page = template.Must(template.New("report").Funcs(template.FuncMap{
 
 // Options configures Write. A nil *Options gives the defaults.
 type Options struct {
-	// Title heads the page; empty means "Causal network report".
+	// Title heads the page; empty means "Discovered network". The page
+	// states below it that the network is a hypothesis, not established
+	// cause and effect.
 	Title string
 	// Truth, when set, is a known true graph (for simulated data) that the
 	// summary compares the result with.
@@ -58,7 +61,7 @@ func Write(w io.Writer, res *antecedent.Result, opts *Options) error {
 		o = *opts
 	}
 	if o.Title == "" {
-		o.Title = "Causal network report"
+		o.Title = "Discovered network"
 	}
 	if o.Generated.IsZero() {
 		o.Generated = time.Now()
@@ -77,17 +80,34 @@ type view struct {
 	Net       network
 	Nodes     []nodeView
 	Summary   summary
-	Blankets  map[string][]int
+	Focus     map[string]focus
 	Cautions  []string
 }
 
 type network struct {
 	Width, Height float64
-	Tiers         []tierView
-	Boxes         []boxView
-	Edges         []edgeView
-	Links         []linkView
-	BoxW, BoxH    float64
+	// MinWidth is the narrowest the drawing is shown before the page
+	// scrolls it sideways: its text never shrinks below 11 px.
+	MinWidth float64
+	Tiers    []tierView
+	Boxes    []boxView
+	Edges    []edgeView
+	Links    []linkView
+	BoxW     float64
+}
+
+// minScale is the smallest scale the network is drawn at: the smallest
+// text in it, 13 units, then shows at 11 px.
+const minScale = 11.0 / 13
+
+// focus lists what focusing a node lights: its Markov blanket (N) and the
+// edges of its own relations (E, indices into the result's edges): to its
+// parents, to its children, and from its children's other parents to
+// those children; and its same-tier links (L).
+type focus struct {
+	N []int `json:"n"`
+	E []int `json:"e"`
+	L []int `json:"l"`
 }
 
 type tierView struct {
@@ -96,22 +116,22 @@ type tierView struct {
 }
 
 type boxView struct {
-	ID      int
-	X, Y    float64 // top-left
-	CX, CY  float64
-	Name    string // full name
-	Short   string // shown
-	Kind    string
-	Score   string
-	ScoreW  float64 // width of the score bar
-	BarX    float64
-	BarY    float64
-	Anchor  string
-	Fitted  bool
-	Parents int
+	ID     int
+	X, Y   float64 // top-left
+	H      float64 // height
+	TextY  float64 // baseline of the name
+	Name   string  // full name
+	Short  string  // shown
+	Kind   string
+	Score  string
+	ScoreW float64 // width of the score bar
+	BarX   float64
+	BarY   float64
+	Anchor string
 }
 
 type edgeView struct {
+	K        int
 	From, To int
 	D        string
 	Class    string
@@ -188,10 +208,21 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		}
 		pairs = append(pairs, [2]int{a, b})
 	}
-	lay := LayoutGraph(tier, pairs)
-	v := &view{Title: o.Title, Generated: o.Generated.UTC().Format("2006-01-02 15:04 UTC"), Res: res, Blankets: map[string][]int{}}
-	net := network{Width: lay.Width, Height: lay.Height + 22, BoxW: lay.BoxWidth, BoxH: lay.BoxHeight}
-	const top = 22 // room for tier labels
+	var links [][2]int
+	for _, l := range res.Links {
+		a, ok1 := index[l.A]
+		b, ok2 := index[l.B]
+		if !ok1 || !ok2 {
+			return nil, fmt.Errorf("report: link %s — %s names an unknown node", l.A, l.B)
+		}
+		links = append(links, [2]int{a, b})
+	}
+	lay, err := LayoutGraph(tier, pairs, links)
+	if err != nil {
+		return nil, err
+	}
+	v := &view{Title: o.Title, Generated: o.Generated.UTC().Format("2006-01-02 15:04 UTC"), Res: res}
+	net := network{Width: lay.Width, Height: lay.Height, BoxW: lay.BoxWidth, MinWidth: math.Min(lay.Width, lay.Width*minScale)}
 	cols := 0
 	for _, t := range tier {
 		cols = max(cols, t+1)
@@ -201,44 +232,33 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		if res.Order != nil && c < len(res.Order.Labels) && res.Order.Labels[c] != "" {
 			label = fmt.Sprintf("%d · %s", c+1, res.Order.Labels[c])
 		}
-		x := margin + float64(c)*(boxWidth+colGap) - 12
-		net.Tiers = append(net.Tiers, tierView{X: x, Width: boxWidth + 24, Height: lay.Height + top - 4, Label: shorten(label, 28)})
+		net.Tiers = append(net.Tiers, tierView{X: colLeft(c) - 12, Width: boxWidth + 24, Height: lay.Height - 8, Label: shorten(label, 24)})
 	}
 	for i, n := range res.Nodes {
-		p := lay.Pos[i]
-		b := boxView{ID: i, CX: p.X, CY: p.Y + top, X: p.X - boxWidth/2, Y: p.Y + top - boxHeight/2,
-			Name: n.Name, Short: shorten(n.Name, 22), Kind: n.Kind.String(), Anchor: fmt.Sprintf("node-%d", i), Fitted: n.Fitted, Parents: len(n.Parents)}
+		p, h := lay.Pos[i], lay.Heights[i]
+		b := boxView{ID: i, X: p.X - boxWidth/2, Y: p.Y - h/2, H: h, TextY: p.Y - 5, Name: n.Name, Short: shorten(n.Name, 20),
+			Kind: n.Kind.String(), Anchor: fmt.Sprintf("node-%d", i)}
 		switch {
 		case !n.Fitted && len(n.Candidates) == 0:
 			b.Score = "first tier"
 		case !n.Fitted:
 			b.Score = "not fitted"
 		case n.Score.Measure == "auc":
-			b.Score = fmt.Sprintf("AUC %.2f", float64(n.Score.Value))
+			b.Score = "AUC " + fixed2(float64(n.Score.Value))
 			b.ScoreW = clamp01((float64(n.Score.Value) - 0.5) / 0.5)
 		case n.Score.Measure == "r2":
-			b.Score = fmt.Sprintf("R² %.2f", float64(n.Score.Value))
+			b.Score = "R² " + fixed2(float64(n.Score.Value))
 			b.ScoreW = clamp01(float64(n.Score.Value))
 		default:
-			b.Score = fmt.Sprintf("%.2f explained", float64(n.Score.Value))
+			b.Score = fixed2(float64(n.Score.Value)) + " explained"
 			b.ScoreW = clamp01(float64(n.Score.Value))
 		}
 		b.ScoreW *= boxWidth - 16
-		b.BarX, b.BarY = b.X+8, b.Y+boxHeight-8
+		b.BarX, b.BarY = b.X+8, b.Y+h-8
 		net.Boxes = append(net.Boxes, b)
-		var mb []int
-		for _, m := range n.MarkovBlanket {
-			mb = append(mb, index[m])
-		}
-		v.Blankets[fmt.Sprint(i)] = mb
 	}
 	for k, e := range res.Edges {
-		a, b := pairs[k][0], pairs[k][1]
-		pa, pb := net.Boxes[a], net.Boxes[b]
-		x1, y1 := pa.CX+boxWidth/2, pa.CY
-		x2, y2 := pb.CX-boxWidth/2-6, pb.CY
-		dx := (x2 - x1) / 2.2
-		ev := edgeView{From: a, To: b, D: fmt.Sprintf("M%.1f,%.1f C%.1f,%.1f %.1f,%.1f %.1f,%.1f", x1, y1, x1+dx, y1, x2-dx, y2, x2, y2)}
+		ev := edgeView{K: k, From: pairs[k][0], To: pairs[k][1], D: lay.Edges[k].Path()}
 		ev.Class = "pos"
 		if e.Sign < 0 {
 			ev.Class = "neg"
@@ -253,14 +273,11 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		ev.Title = edgeTitle(e)
 		net.Edges = append(net.Edges, ev)
 	}
-	for _, l := range res.Links {
-		a, b := index[l.A], index[l.B]
-		pa, pb := net.Boxes[a], net.Boxes[b]
-		x := pa.CX + boxWidth/2
-		bulge := 34 + math.Abs(pb.CY-pa.CY)/6
-		net.Links = append(net.Links, linkView{A: a, B: b, Title: l.A + " — " + l.B + " (same tier, undirected)",
-			D: fmt.Sprintf("M%.1f,%.1f Q%.1f,%.1f %.1f,%.1f", x, pa.CY, x+bulge, (pa.CY+pb.CY)/2, x, pb.CY)})
+	for k, l := range res.Links {
+		net.Links = append(net.Links, linkView{A: links[k][0], B: links[k][1], Title: l.A + " — " + l.B + " (same tier, undirected)",
+			D: lay.Links[k].Path()})
 	}
+	v.Focus = focusSets(len(res.Nodes), pairs, links)
 	v.Net = net
 	for i := range res.Nodes {
 		v.Nodes = append(v.Nodes, nodeSection(res, i))
@@ -273,6 +290,66 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		"It does not replace clinical judgement, local rules and approvals, or review by licensed statisticians and clinicians.",
 	}
 	return v, nil
+}
+
+// focusSets returns, for each node of a graph with n nodes, edges and
+// same-tier links, what focusing it lights.
+func focusSets(n int, edges, links [][2]int) map[string]focus {
+	parents := make([][]int, n)
+	children := make([][]int, n)
+	into := make([][]int, n) // edge indices into each node
+	for k, e := range edges {
+		parents[e[1]] = append(parents[e[1]], e[0])
+		children[e[0]] = append(children[e[0]], e[1])
+		into[e[1]] = append(into[e[1]], k)
+	}
+	out := make(map[string]focus, n)
+	for i := range n {
+		var f focus
+		nodes := map[int]bool{}
+		for k, e := range edges {
+			if e[0] == i || e[1] == i {
+				f.E = append(f.E, k)
+			}
+		}
+		for _, p := range parents[i] {
+			nodes[p] = true
+		}
+		for _, c := range children[i] {
+			nodes[c] = true
+			for _, k := range into[c] {
+				if p := edges[k][0]; p != i {
+					f.E = append(f.E, k)
+					nodes[p] = true
+				}
+			}
+		}
+		for k, l := range links {
+			if l[0] == i || l[1] == i {
+				f.L = append(f.L, k)
+				nodes[l[0]], nodes[l[1]] = true, true
+			}
+		}
+		delete(nodes, i)
+		for j := range n {
+			if nodes[j] {
+				f.N = append(f.N, j)
+			}
+		}
+		slices.Sort(f.E)
+		out[fmt.Sprint(i)] = f
+	}
+	return out
+}
+
+// fixed2 formats x with two decimals, without a minus sign on a value
+// that rounds to zero.
+func fixed2(x float64) string {
+	s := fmt.Sprintf("%.2f", x)
+	if s == "-0.00" {
+		return "0.00"
+	}
+	return s
 }
 
 func clamp01(x float64) float64 {
@@ -333,7 +410,7 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		nv.Effects = append(nv.Effects, ev)
 	}
 	if len(n.Curve) > 1 {
-		nv.CV = cvChart(n)
+		nv.CV = cvChart(n, fmt.Sprintf("cv-%d", i))
 	}
 	if n.Path != nil && len(n.Path.Penalties) > 1 {
 		nv.Path = pathChart(n)
@@ -349,49 +426,222 @@ func fmtNum(x antecedent.Number) string {
 	return fmt.Sprintf("%.3g", f)
 }
 
-func cvChart(n *antecedent.Node) *chart {
-	c := newChart("−log penalty", "CV "+n.Measure.String())
-	var xs, ys, lo, hi []float64
+// measureName names a cross-validation measure for a chart's axis.
+func measureName(m cv.Measure) string {
+	switch m {
+	case cv.Deviance, cv.DefaultMeasure:
+		return "deviance"
+	case cv.MeanSquaredError:
+		return "squared error"
+	case cv.MeanAbsoluteError:
+		return "absolute error"
+	case cv.AreaUnderCurve:
+		return "AUC"
+	case cv.Misclassification:
+		return "misclassified share"
+	}
+	return m.String()
+}
+
+// nearest returns the index of the positive penalty in ps closest to p on
+// a log scale, or -1.
+func nearest(ps []float64, p float64) int {
+	k := -1
+	if !(p > 0) || !finite(p) {
+		return k
+	}
+	best := math.Inf(1)
+	for i, q := range ps {
+		if d := math.Abs(math.Log(q / p)); q > 0 && d < best {
+			k, best = i, d
+		}
+	}
+	return k
+}
+
+func parentCount(k int) string {
+	switch k {
+	case 0:
+		return "no parents"
+	case 1:
+		return "1 parent"
+	}
+	return fmt.Sprintf("%d parents", k)
+}
+
+// cvChart draws the cross-validation curve against the penalty: the
+// uncertainty as a band of ±1 standard error, the chosen penalty as one
+// labelled point on the curve giving the number of parents there, and,
+// under the one-SE rule, the lowest point and the level within one
+// standard error of it that the choice had to reach. When the strong end
+// of the curve rises far beyond the region of the choice, the value axis
+// is cut to that region and the curve leaves the plot at the top.
+func cvChart(n *antecedent.Node, id string) *chart {
+	var pen, lx, ys, lo, hi []float64
 	for _, p := range n.Curve {
-		xs = append(xs, -math.Log(float64(p.Penalty)))
-		ys = append(ys, float64(p.Mean))
-		lo = append(lo, float64(p.Mean)-float64(p.SE))
-		hi = append(hi, float64(p.Mean)+float64(p.SE))
+		l, m := float64(p.Penalty), float64(p.Mean)
+		if !(l > 0) || !finite(l) || !finite(m) {
+			continue
+		}
+		se := float64(p.SE)
+		pen, lx, ys = append(pen, l), append(lx, math.Log10(l)), append(ys, m)
+		lo, hi = append(lo, m-se), append(hi, m+se)
+	}
+	if len(pen) < 2 {
+		return nil
 	}
 	ymin, ymax := math.Inf(1), math.Inf(-1)
 	for i := range ys {
-		for _, y := range []float64{lo[i], hi[i]} {
+		for _, y := range []float64{lo[i], ys[i], hi[i]} {
 			if finite(y) {
 				ymin, ymax = math.Min(ymin, y), math.Max(ymax, y)
 			}
 		}
 	}
-	if !finite(ymin) {
-		return nil
+	larger := n.Measure == cv.AreaUnderCurve
+	chosen := nearest(pen, float64(n.Penalty))
+	best := nearest(pen, float64(n.BestPenalty))
+	c := newChart("held-out " + measureName(n.Measure))
+	c.ID = id
+	if chosen >= 0 && best >= 0 {
+		// Keep the worse side of the choice within 2.5 times the choice's
+		// distance from the best edge of the band.
+		const reach = 2.5
+		if larger {
+			key := math.Min(ys[chosen], finiteOr(lo[best], ys[best]))
+			if floor := key - reach*(ymax-key); floor > ymin {
+				ymin, c.Clipped = floor, true
+			}
+		} else {
+			key := math.Max(ys[chosen], finiteOr(hi[best], ys[best]))
+			if ceil := key + reach*(key-ymin); ceil < ymax {
+				ymax, c.Clipped = ceil, true
+			}
+		}
 	}
-	sx, sy := c.axes(xs[0], xs[len(xs)-1], ymin, ymax)
-	for i := range xs {
+	sx, sy := c.axes(slices.Min(pen), slices.Max(pen), ymin, ymax)
+	var upper, lower []string
+	for i := range lx {
 		if finite(lo[i]) && finite(hi[i]) {
-			c.Bars = append(c.Bars, bar{sx.at(xs[i]), sy.at(lo[i]), sy.at(hi[i])})
+			upper = append(upper, fmt.Sprintf("%.1f,%.1f", sx.at(lx[i]), sy.at(hi[i])))
+			lower = append(lower, fmt.Sprintf("%.1f,%.1f", sx.at(lx[i]), sy.at(lo[i])))
 		}
 	}
-	c.Series = append(c.Series, series{Points: points(sx, sy, xs, ys), Class: "cv"})
-	add := func(pen antecedent.Number, name, class string, y float64) {
-		if f := float64(pen); finite(f) && f > 0 {
-			c.Marks = append(c.Marks, c.mark(sx.at(-math.Log(f)), name, class, y))
+	slices.Reverse(lower)
+	c.Band = strings.Join(append(upper, lower...), " ")
+	c.Lines = append(c.Lines, series{Points: points(sx, sy, lx, ys), Class: "cv"})
+
+	better := "lower is better"
+	if larger {
+		better = "higher is better"
+	}
+	switch n.Rule {
+	case cv.OneStandardError:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds. One-SE rule: the strongest penalty within one standard error of the best (open circle), shown by the level line.",
+			measureName(n.Measure), better)
+	case cv.MinimumLoss:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds. Minimum rule: the penalty with the best held-out %s.",
+			measureName(n.Measure), better, measureName(n.Measure))
+	default:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds.", measureName(n.Measure), better)
+	}
+	if chosen < 0 {
+		return c
+	}
+	x, y := sx.at(lx[chosen]), sy.at(ys[chosen])
+	key := c.place(x, y, "chosen: "+parentCount(len(n.Parents)), larger, true)
+	key.Class = "key"
+	if best >= 0 && best != chosen {
+		// The level the one-SE rule compared with: the best mean plus (or
+		// minus) its standard error.
+		lvl := hi[best]
+		if larger {
+			lvl = lo[best]
+		}
+		if finite(lvl) {
+			c.Rule = &segment{X1: sx.at(lx[best]), X2: x, Y: sy.at(lvl)}
+		}
+		bx, by := sx.at(lx[best]), sy.at(ys[best])
+		c.Dots = append(c.Dots, dot{X: bx, Y: by, Class: "lowest"})
+		name := "lowest"
+		if larger {
+			name = "highest"
+		}
+		for _, try := range [][2]bool{{!larger, true}, {!larger, false}, {larger, true}, {larger, false}} {
+			l := c.place(bx, by, name, try[0], try[1])
+			if !l.overlaps(key) && l.inside(c) {
+				l.Class = "muted"
+				c.Labels = append(c.Labels, l)
+				break
+			}
 		}
 	}
-	add(n.BestPenalty, "minimum", "best", c.Top+10)
-	add(n.OneSEPenalty, "one SE", "onese", c.Top+22)
+	c.Dots = append(c.Dots, dot{X: x, Y: y, Class: "chosen"})
+	c.Labels = append(c.Labels, key)
 	return c
 }
 
+func finiteOr(v, alt float64) float64 {
+	if finite(v) {
+		return v
+	}
+	return alt
+}
+
+// place returns a label for the point (x, y): below or above it, to its
+// right or left; a label that would leave the plot moves to the other
+// side of x, or of y.
+func (c *chart) place(x, y float64, text string, below, right bool) chartLabel {
+	l := chartLabel{X: x + 6, Text: text, Anchor: "start"}
+	if !right || x+6+textWidth(text) > c.Left+c.PlotW {
+		l.X, l.Anchor = x-6, "end"
+		if x-6-textWidth(text) < c.Left {
+			l.X, l.Anchor = x+6, "start"
+		}
+	}
+	l.Y = y - 8
+	if below && y+16 <= c.Top+c.PlotH-2 || !below && y-18 < c.Top {
+		l.Y = y + 16
+	}
+	return l
+}
+
+// box returns the extent of a label's text, estimated.
+func (l chartLabel) box() (x0, y0, x1, y1 float64) {
+	w := textWidth(l.Text)
+	x0 = l.X
+	if l.Anchor == "end" {
+		x0 -= w
+	}
+	return x0, l.Y - 9, x0 + w, l.Y + 2
+}
+
+func (l chartLabel) overlaps(m chartLabel) bool {
+	ax0, ay0, ax1, ay1 := l.box()
+	bx0, by0, bx1, by1 := m.box()
+	return ax0 < bx1+2 && bx0 < ax1+2 && ay0 < by1+1 && by0 < ay1+1
+}
+
+func (l chartLabel) inside(c *chart) bool {
+	x0, y0, x1, y1 := l.box()
+	return x0 >= c.Left && x1 <= c.Left+c.PlotW+4 && y0 >= c.Top-2 && y1 <= c.Top+c.PlotH
+}
+
+// pathChart draws the coefficient paths of the full-data fit against the
+// penalty. The terms chosen at the selected penalty are drawn in the
+// colour of their sign, marked where they were chosen and labelled there;
+// the other candidates are thin and grey.
 func pathChart(n *antecedent.Node) *chart {
-	c := newChart("−log penalty", "coefficient")
 	p := n.Path
-	xs := make([]float64, len(p.Penalties))
+	var keep []int // penalty indices drawn
+	var pen, lx []float64
 	for k, l := range p.Penalties {
-		xs[k] = -math.Log(float64(l))
+		if f := float64(l); f > 0 && finite(f) {
+			keep, pen, lx = append(keep, k), append(pen, f), append(lx, math.Log10(f))
+		}
+	}
+	if len(pen) < 2 {
+		return nil
 	}
 	ymin, ymax := 0.0, 0.0
 	for _, vals := range p.Values {
@@ -401,40 +651,81 @@ func pathChart(n *antecedent.Node) *chart {
 			}
 		}
 	}
-	sx, sy := c.axes(xs[0], xs[len(xs)-1], ymin, ymax)
-	type ranked struct {
-		t    int
-		size float64
+	c := newChart("coefficient")
+	sx, sy := c.axes(slices.Min(pen), slices.Max(pen), ymin, ymax)
+	chosen := nearest(pen, float64(n.Penalty))
+	picked := map[string]bool{}
+	for _, t := range n.Penalised {
+		picked[t.Term] = true
 	}
-	var order []ranked
+	type mark struct {
+		y    float64
+		name string
+	}
+	var marks []mark
+	var strong []series
 	for t, vals := range p.Values {
-		last := float64(vals[len(vals)-1])
-		order = append(order, ranked{t, math.Abs(last)})
+		if t >= len(p.Terms) {
+			break
+		}
+		ys := make([]float64, len(keep))
+		for i, k := range keep {
+			ys[i] = math.NaN()
+			if k < len(vals) {
+				ys[i] = float64(vals[k])
+			}
+		}
+		s := series{Points: points(sx, sy, lx, ys), Class: "other", Title: p.Terms[t]}
+		if !picked[p.Terms[t]] || chosen < 0 || !finite(ys[chosen]) {
+			c.Lines = append(c.Lines, s)
+			continue
+		}
+		s.Class = "up"
+		if ys[chosen] < 0 {
+			s.Class = "down"
+		}
+		strong = append(strong, s)
+		y := sy.at(ys[chosen])
+		c.Dots = append(c.Dots, dot{X: sx.at(lx[chosen]), Y: y, Class: s.Class})
+		marks = append(marks, mark{y, shorten(p.Terms[t], 22)})
 	}
-	slices.SortFunc(order, func(a, b ranked) int {
+	c.Lines = append(c.Lines, strong...) // chosen paths on top
+	slices.SortStableFunc(marks, func(a, b mark) int {
 		switch {
-		case a.size > b.size:
+		case a.y < b.y:
 			return -1
-		case a.size < b.size:
+		case a.y > b.y:
 			return 1
 		}
-		return a.t - b.t
+		return 0
 	})
-	for rank, r := range order {
-		ys := make([]float64, len(xs))
-		for k, v := range p.Values[r.t] {
-			ys[k] = float64(v)
-		}
-		s := series{Points: points(sx, sy, xs, ys), Class: fmt.Sprintf("c%d", rank%8)}
-		if rank < 5 && r.size > 0 {
-			s.Name = shorten(p.Terms[r.t], 18)
-			s.LabelX = c.Left + c.PlotW - 2
-			s.LabelY = sy.at(ys[len(ys)-1])
-		}
-		c.Series = append(c.Series, s)
+	if room := int(c.PlotH / labelLine); len(marks) > room {
+		marks = marks[:room]
 	}
-	if f := float64(n.Penalty); finite(f) && f > 0 {
-		c.Marks = append(c.Marks, c.mark(sx.at(-math.Log(f)), "selected", "sel", c.Top+10))
+	if len(marks) > 0 {
+		x := sx.at(lx[chosen])
+		var wide float64
+		want := make([]float64, len(marks))
+		for i, m := range marks {
+			want[i] = m.y + 4 // baseline about a third of a line below the point
+			wide = math.Max(wide, textWidth(m.name))
+		}
+		got := stack(want, c.Top+10, c.Top+c.PlotH-2)
+		lab := chartLabel{X: x + 14, Anchor: "start"}
+		if x+14+wide > c.Left+c.PlotW {
+			lab.X, lab.Anchor = x-14, "end"
+		}
+		for i, m := range marks {
+			l := lab
+			l.Y, l.Text, l.Class = got[i], m.name, "key"
+			l.Leader, l.LX, l.LY = true, x, m.y
+			c.Labels = append(c.Labels, l)
+		}
+	}
+	c.Caption = "Each candidate term's coefficient as the penalty weakens. Coloured and labelled at the chosen penalty: " +
+		"the chosen terms (green positive, orange negative); grey: not chosen."
+	if len(marks) == 0 {
+		c.Caption = "Each candidate term's coefficient as the penalty weakens; none is chosen at the selected penalty."
 	}
 	return c
 }
