@@ -418,7 +418,7 @@ func TestBrowserRandom30(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, err := antecedent.NewDataset(s.Names, s.Columns)
+	d, err := table.NewDataset(s.Names, s.Columns)
 	if err != nil {
 		t.Fatal(err)
 	}

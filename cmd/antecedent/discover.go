@@ -179,7 +179,7 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	if err := s.outputs(res, &report.Options{Title: "Causal network of " + filepath.Base(*dataPath)}, *dataPath, *orderPath); err != nil {
+	if err := s.outputs(res, &report.Options{Title: "Discovered network: " + filepath.Base(*dataPath)}, *dataPath, *orderPath); err != nil {
 		return err
 	}
 	if !s.quiet {

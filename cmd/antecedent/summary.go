@@ -30,6 +30,7 @@ func num(x antecedent.Number, digits int) string {
 func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 	tiers := res.Order.Tiers
 	fmt.Fprintf(w, "antecedent: %d variables, %d rows, %d tiers, %d edges\n", len(res.Nodes), res.Rows, len(tiers), len(res.Edges))
+	fmt.Fprintln(w, "Scores are cross-validated, of the parents refitted without penalty (± one standard error).")
 	for _, n := range res.Nodes {
 		if n.Fitted {
 			rule := "one-standard-error rule"
@@ -121,8 +122,11 @@ func writeNode(w io.Writer, res *antecedent.Result, n *antecedent.Node, width in
 	} else if n.Score.Measure != "r2" {
 		score = n.Score.Measure
 	}
-	fmt.Fprintf(w, "  %s%s  %-11s  %s %s ± %s  (%d rows, %d of %d candidates)\n", n.Name, pad, kind, score,
-		num(n.Score.Value, 3), num(n.Score.SE, 3), n.Rows, len(n.Parents), len(n.Candidates))
+	value := fmt.Sprintf("%s %s ± %s", score, num(n.Score.Value, 3), num(n.Score.SE, 3))
+	if n.Score.Note != "" {
+		value = n.Score.Note
+	}
+	fmt.Fprintf(w, "  %s%s  %-11s  %s  (%d rows, %d of %d candidates)\n", n.Name, pad, kind, value, n.Rows, len(n.Parents), len(n.Candidates))
 	for _, p := range n.Parents {
 		for _, e := range n.Effects {
 			if e.Parent != p {
