@@ -1,0 +1,363 @@
+// Command validity measures how well discovery recovers known networks: it
+// simulates suites of random tiered networks (continuous, binary and
+// mixed; several sample sizes and effect sizes; fixed seeds), runs the
+// selection procedures on each, and prints precision, recall and F1 of the
+// directed edges with Monte Carlo standard errors, false edges per node by
+// the child's kind, and the calibration of stability-selection
+// frequencies. Its tables are the evidence for the defaults in the README.
+//
+//	go run ./bench/validity                 # the standard suite
+//	go run ./bench/validity -suite quick    # a small suite for a first look
+//	go run ./bench/validity -networks 5     # fewer networks per setting
+package main
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"log"
+	"math"
+	"os"
+	"runtime"
+	"slices"
+	"sort"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/table"
+)
+
+// setting is one family of simulated networks.
+type setting struct {
+	kind     string  // continuous, binary or mixed
+	n, p     int     // rows and variables
+	parents  float64 // expected parents per node
+	lo, hi   float64 // absolute edge weights, drawn uniformly
+	strength string  // weak or strong
+}
+
+func (s setting) String() string {
+	return fmt.Sprintf("%s n=%d p=%d %.0f parents %s", s.kind, s.n, s.p, s.parents, s.strength)
+}
+
+// procedure is one way of choosing parents.
+type procedure struct {
+	name string
+	cfg  func(seed uint64) *antecedent.Config
+	keep func(e dag.Edge) bool // nil keeps every edge
+}
+
+func suite(name string) ([]setting, error) {
+	kinds := []string{"continuous", "binary", "mixed"}
+	signals := []struct {
+		name   string
+		lo, hi float64
+	}{{"weak", 0.15, 0.4}, {"strong", 0.4, 1}}
+	var out []setting
+	switch name {
+	case "quick":
+		for _, k := range kinds {
+			out = append(out, setting{k, 1000, 20, 2, 0.4, 1, "strong"})
+		}
+	case "standard":
+		for _, k := range kinds {
+			for _, n := range []int{200, 1000, 5000, 20000} {
+				for _, sg := range signals {
+					out = append(out, setting{k, n, 30, 2, sg.lo, sg.hi, sg.name})
+				}
+			}
+		}
+		out = append(out, setting{"mixed", 5000, 50, 2, 0.4, 1, "strong"})
+	case "dense":
+		for _, k := range kinds {
+			for _, n := range []int{500, 2000, 20000} {
+				out = append(out, setting{k, n, 60, 3.5, 0.3, 1, "strong"})
+			}
+		}
+		out = append(out, setting{"continuous", 2000, 100, 3.5, 0.3, 1, "strong"})
+	default:
+		return nil, fmt.Errorf("unknown suite %q (quick, standard or dense)", name)
+	}
+	return out, nil
+}
+
+// calibrationThresholds are the frequencies at which the share of true
+// edges among those selected at least that often is reported.
+var calibrationThresholds = []float64{0.6, 0.7, 0.8, 0.9, 1}
+
+const stabilityPairs = 25
+
+func procedures() []procedure {
+	rule := func(r cv.Rule) func(uint64) *antecedent.Config {
+		return func(seed uint64) *antecedent.Config {
+			return &antecedent.Config{Seed: seed, Workers: 1, CV: cv.Settings{Rule: r}}
+		}
+	}
+	stable := func(seed uint64) *antecedent.Config {
+		// The lowest threshold the configuration allows, so that every
+		// edge selected in over half the fits is reported with its
+		// frequency; thresholds are applied afterwards.
+		return &antecedent.Config{Seed: seed, Workers: 1, Stability: antecedent.Stability{Pairs: stabilityPairs, Threshold: 0.51}}
+	}
+	return []procedure{
+		{name: "minimum rule", cfg: rule(cv.MinimumLoss)},
+		{name: "one-SE rule", cfg: rule(cv.OneStandardError)},
+		{name: "stability ≥ 0.75", cfg: stable, keep: func(e dag.Edge) bool { return e.Frequency >= 0.75 }},
+		{name: "stability ≥ 0.9", cfg: stable, keep: func(e dag.Edge) bool { return e.Frequency >= 0.9 }},
+	}
+}
+
+// outcome is one procedure on one network.
+type outcome struct {
+	precision, recall, f1 float64
+	falseBinary           int // false edges into binary children
+	falseContinuous       int
+	binaryNodes, contNode int
+	seconds               float64
+	freqs                 []float64 // stability frequencies of reported edges
+	truths                []bool    // whether each of them is true
+}
+
+func main() {
+	log.SetFlags(0)
+	suiteName := flag.String("suite", "standard", "quick, standard or dense")
+	networks := flag.Int("networks", 20, "networks per setting")
+	workers := flag.Int("workers", runtime.GOMAXPROCS(0), "networks run at once")
+	only := flag.String("only", "", "run only settings whose description contains this text")
+	flag.Parse()
+	settings, err := suite(*suiteName)
+	if err != nil {
+		log.Fatal(err)
+	}
+	procs := procedures()
+	start := time.Now()
+	w := os.Stdout
+	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds 1…%d; %s, %d cores.\n\n", *suiteName, *networks, *networks, runtime.Version(), runtime.NumCPU())
+	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | s per network |")
+	fmt.Fprintln(w, "|---|---|---|---|---|---|---|")
+	calib := map[string][][2]int{} // kind → per threshold (true, total)
+	for _, s := range settings {
+		if *only != "" && !strings.Contains(s.String(), *only) {
+			continue
+		}
+		res := run(s, procs, *networks, *workers)
+		for pi, p := range procs {
+			printRow(w, s, p.name, res[pi])
+		}
+		for _, o := range res[len(procs)-1] {
+			c := calib[s.kind]
+			if c == nil {
+				c = make([][2]int, len(calibrationThresholds))
+			}
+			for i, f := range o.freqs {
+				for k, th := range calibrationThresholds {
+					if f >= th-1e-12 {
+						c[k][1]++
+						if o.truths[i] {
+							c[k][0]++
+						}
+					}
+				}
+			}
+			calib[s.kind] = c
+		}
+	}
+	fmt.Fprintf(w, "\nCalibration of stability frequencies (%d complementary pairs): of the edges selected with frequency ≥ f, the share that are true.\n\n", stabilityPairs)
+	fmt.Fprint(w, "| networks |")
+	for _, th := range calibrationThresholds {
+		fmt.Fprintf(w, " f ≥ %.1f |", th)
+	}
+	fmt.Fprintln(w)
+	fmt.Fprintln(w, "|---|"+strings.Repeat("---|", len(calibrationThresholds)))
+	kinds := make([]string, 0, len(calib))
+	for k := range calib {
+		kinds = append(kinds, k)
+	}
+	sort.Strings(kinds)
+	for _, k := range kinds {
+		fmt.Fprintf(w, "| %s |", k)
+		for _, c := range calib[k] {
+			if c[1] == 0 {
+				fmt.Fprint(w, " – |")
+				continue
+			}
+			fmt.Fprintf(w, " %.3f (%d) |", float64(c[0])/float64(c[1]), c[1])
+		}
+		fmt.Fprintln(w)
+	}
+	fmt.Fprintf(w, "\nTotal time %.0f s.\n", time.Since(start).Seconds())
+}
+
+// run fits every procedure on the networks of setting s and returns the
+// outcomes by procedure and network.
+func run(s setting, procs []procedure, networks, workers int) [][]outcome {
+	out := make([][]outcome, len(procs))
+	for i := range out {
+		out[i] = make([]outcome, networks)
+	}
+	jobs := make(chan int)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for k := range jobs {
+				network(s, uint64(k+1), procs, out, k)
+			}
+		}()
+	}
+	for k := range networks {
+		jobs <- k
+	}
+	close(jobs)
+	wg.Wait()
+	return out
+}
+
+// network draws network seed of setting s and runs each procedure on it;
+// procedures sharing a configuration share one run.
+func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) {
+	binary := map[string]float64{"continuous": 0, "binary": 1, "mixed": 0.5}[s.kind]
+	// Expected parents: each earlier node is a parent with probability q;
+	// a node has (p − p/T)/2 earlier nodes on average over T tiers.
+	tiers := 5
+	q := math.Min(1, s.parents/(float64(s.p)*(1-1/float64(tiers))/2))
+	m, o, err := simulate.Random(simulate.RandomSettings{Variables: s.p, Tiers: tiers, BinaryShare: binary, EdgeProbability: q,
+		MinWeight: s.lo, MaxWeight: s.hi}, seed)
+	if err != nil {
+		log.Fatal(err)
+	}
+	sample, err := m.Sample(s.n, seed+1000)
+	if err != nil {
+		log.Fatal(err)
+	}
+	d, err := table.NewDataset(sample.Names, sample.Columns)
+	if err != nil {
+		log.Fatal(err)
+	}
+	g, err := m.Graph()
+	if err != nil {
+		log.Fatal(err)
+	}
+	truth := g.Edges()
+	isTrue := map[[2]string]bool{}
+	for _, e := range truth {
+		isTrue[[2]string{e.From, e.To}] = true
+	}
+	kindOf := map[string]bool{}
+	for _, nd := range m.Nodes {
+		kindOf[nd.Name] = nd.Binary
+	}
+	cache := map[string]*antecedent.Result{}
+	times := map[string]float64{}
+	for pi, p := range procs {
+		cfg := p.cfg(seed)
+		key := fmt.Sprintf("%+v", *cfg)
+		res := cache[key]
+		if res == nil {
+			t0 := time.Now()
+			res, err = antecedent.DiscoverContext(context.Background(), d, o, cfg)
+			if err != nil {
+				log.Fatalf("%v seed %d, %s: %v", s, seed, p.name, err)
+			}
+			cache[key], times[key] = res, time.Since(t0).Seconds()
+		}
+		var est []dag.Edge
+		var oc outcome
+		for _, e := range res.Edges {
+			if !math.IsNaN(e.Frequency) {
+				oc.freqs = append(oc.freqs, e.Frequency)
+				oc.truths = append(oc.truths, isTrue[[2]string{e.From, e.To}])
+			}
+			if p.keep == nil || p.keep(e) {
+				est = append(est, e)
+				if !isTrue[[2]string{e.From, e.To}] {
+					if kindOf[e.To] {
+						oc.falseBinary++
+					} else {
+						oc.falseContinuous++
+					}
+				}
+			}
+		}
+		for _, nd := range res.Nodes {
+			if !nd.Fitted {
+				continue
+			}
+			if kindOf[nd.Name] {
+				oc.binaryNodes++
+			} else {
+				oc.contNode++
+			}
+		}
+		c, err := dag.Compare(est, truth)
+		if err != nil {
+			log.Fatal(err)
+		}
+		oc.precision, oc.recall, oc.f1 = c.Precision, c.Recall, c.F1
+		if math.IsNaN(oc.precision) {
+			oc.precision = 1 // no edge reported: none of them is false
+		}
+		if math.IsNaN(oc.f1) {
+			oc.f1 = 0
+		}
+		oc.seconds = times[key]
+		out[pi][k] = oc
+	}
+}
+
+// meanSE returns the mean of xs (NaN skipped) and its Monte Carlo standard
+// error.
+func meanSE(xs []float64) (float64, float64) {
+	xs = slices.DeleteFunc(slices.Clone(xs), math.IsNaN)
+	if len(xs) == 0 {
+		return math.NaN(), math.NaN()
+	}
+	var s, ss float64
+	for _, x := range xs {
+		s += x
+	}
+	m := s / float64(len(xs))
+	for _, x := range xs {
+		ss += (x - m) * (x - m)
+	}
+	if len(xs) < 2 {
+		return m, math.NaN()
+	}
+	return m, math.Sqrt(ss/float64(len(xs)-1)) / math.Sqrt(float64(len(xs)))
+}
+
+func printRow(w io.Writer, s setting, name string, os []outcome) {
+	col := func(f func(o outcome) float64) string {
+		xs := make([]float64, len(os))
+		for i, o := range os {
+			xs[i] = f(o)
+		}
+		m, se := meanSE(xs)
+		return fmt.Sprintf("%.3f ± %.3f", m, se)
+	}
+	var fb, fc, nb, nc int
+	var secs float64
+	for _, o := range os {
+		fb += o.falseBinary
+		fc += o.falseContinuous
+		nb += o.binaryNodes
+		nc += o.contNode
+		secs += o.seconds
+	}
+	ratio := func(a, b int) string {
+		if b == 0 {
+			return "–"
+		}
+		return fmt.Sprintf("%.3f", float64(a)/float64(b))
+	}
+	fmt.Fprintf(w, "| %s | %s | %s | %s | %s | %s / %s | %.2f |\n", s, name,
+		col(func(o outcome) float64 { return o.precision }), col(func(o outcome) float64 { return o.recall }),
+		col(func(o outcome) float64 { return o.f1 }), ratio(fb, nb), ratio(fc, nc), secs/float64(len(os)))
+}
