@@ -340,7 +340,10 @@ func (r *run) effects(ctx context.Context, p *nodePlan, parents []int, warnings 
 			Estimate: Number(est), SE: Number(se),
 			Lower: Number(est - f.Quantile*se), Upper: Number(est + f.Quantile*se),
 			OddsRatio: nan(), OddsLower: nan(), OddsUpper: nan(),
-			Standardized: Number(est * f.SD[t]),
+			Standardized: Number(est * f.SD[t]), NotEstimable: f.NotEstimable[t],
+		}
+		if e.NotEstimable != "" {
+			*warnings = append(*warnings, fmt.Sprintf("effect of %s not estimable (%s)", e.Term, e.NotEstimable))
 		}
 		switch p.role {
 		case gaussian:

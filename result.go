@@ -170,6 +170,10 @@ type Effect struct {
 	// Standardized is the effect per standard deviation of the parent
 	// term (and of the child, for a continuous child).
 	Standardized Number `json:"standardized"`
+	// NotEstimable says why the effect was not estimated (its numbers are
+	// then null): a level with too few rows, or a parent that separates a
+	// binary child's outcome.
+	NotEstimable string `json:"not_estimable,omitempty"`
 }
 
 // Link is an undirected same-tier association.

@@ -407,6 +407,9 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		if f, ok := freq[e.Parent]; ok && finite(f) {
 			ev.Frequency = fmt.Sprintf("%.0f%%", 100*f)
 		}
+		if e.NotEstimable != "" {
+			ev.Estimate, ev.Interval = "not estimable", e.NotEstimable
+		}
 		nv.Effects = append(nv.Effects, ev)
 	}
 	if len(n.Curve) > 1 {

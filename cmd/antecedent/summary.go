@@ -133,7 +133,9 @@ func writeNode(w io.Writer, res *antecedent.Result, n *antecedent.Node, width in
 				continue
 			}
 			var effect string
-			if !math.IsNaN(float64(e.OddsRatio)) {
+			if e.NotEstimable != "" {
+				effect = "not estimable: " + e.NotEstimable
+			} else if !math.IsNaN(float64(e.OddsRatio)) {
 				effect = fmt.Sprintf("odds ratio %s [%s, %s]", num(e.OddsRatio, 2), num(e.OddsLower, 2), num(e.OddsUpper, 2))
 			} else {
 				unit := "per unit"

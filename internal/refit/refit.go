@@ -26,6 +26,11 @@ type Fit struct {
 	// SD holds the population standard deviations of the predictors and,
 	// last, of the response, over the rows used.
 	SD []float64
+	// NotEstimable says, for each predictor, why its effect was not
+	// estimated ("" when it was): a level with too few rows, or a
+	// predictor that separates a 0/1 response. Such predictors are left
+	// out of the fit; their Coef and SE are NaN.
+	NotEstimable []string
 	// Warning is empty when all went well.
 	Warning string
 }
@@ -35,6 +40,52 @@ type Fit struct {
 // never modifies its inputs and returns an error only for inputs the
 // moment accumulation refuses (such as mismatched lengths) or ctx.Err().
 func Regress(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, rows []int) (Fit, error) {
+	_, binomial := fam.(lasso.Binomial)
+	reasons := screen(x, y, rows, binomial)
+	var keep []int
+	for a, r := range reasons {
+		if r == "" {
+			keep = append(keep, a)
+		}
+	}
+	if len(keep) == len(x) {
+		f, err := regress(ctx, fam, x, y, rows)
+		f.NotEstimable = reasons
+		return f, err
+	}
+	sub := make([][]float64, len(keep))
+	for t, a := range keep {
+		sub[t] = x[a]
+	}
+	f, err := regress(ctx, fam, sub, y, rows)
+	if err != nil {
+		return Fit{}, err
+	}
+	// Spread the kept predictors' results back over all of them.
+	full := Fit{Intercept: f.Intercept, Quantile: f.Quantile, Warning: f.Warning, NotEstimable: reasons,
+		Coef: make([]float64, len(x)), SE: make([]float64, len(x)), SD: make([]float64, len(x)+1)}
+	for a := range x {
+		full.Coef[a], full.SE[a] = math.NaN(), math.NaN()
+		full.SD[a] = spread(x[a], rows)
+	}
+	for t, a := range keep {
+		full.Coef[a], full.SE[a], full.SD[a] = f.Coef[t], f.SE[t], f.SD[t]
+	}
+	full.SD[len(x)] = f.SD[len(keep)]
+	return full, nil
+}
+
+// spread returns the population standard deviation of x over rows.
+func spread(x []float64, rows []int) float64 {
+	m := lasso.NewMoments(lasso.ColumnMeans([][]float64{x}, nil, rows))
+	if err := m.Accumulate([][]float64{x}, nil, rows); err != nil {
+		return math.NaN()
+	}
+	return math.Sqrt(math.Max(m.Covariance(0, 0), 0))
+}
+
+// regress is Regress on predictors that passed the screen.
+func regress(ctx context.Context, fam lasso.Family, x [][]float64, y []float64, rows []int) (Fit, error) {
 	k := len(x)
 	n := len(y)
 	if rows != nil {

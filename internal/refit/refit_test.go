@@ -59,51 +59,76 @@ func TestRegressAgainstStatsmodels(t *testing.T) {
 	}
 }
 
-// TestRegressDegenerate checks the warnings that replace numbers a reader
-// must not trust.
+// TestRegressDegenerate checks the warnings and reasons that replace
+// numbers a reader must not trust.
 func TestRegressDegenerate(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
 	n := 400
-	a, b, y, sep := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
+	a, b, y, yb, sep, thin, quasi := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
 	for i := range n {
 		a[i] = rng.NormFloat64()
 		b[i] = 2 * a[i] // collinear with a
 		y[i] = a[i] + rng.NormFloat64()
+		if rng.Float64() < 1/(1+math.Exp(-a[i])) {
+			yb[i] = 1
+		}
 		if a[i] > 0 {
 			sep[i] = 1 // perfectly separated by a
 		}
+		if i < 3 {
+			thin[i] = 1 // a level with three rows
+		}
+		if i%4 == 0 {
+			quasi[i] = 1 // every row with it has yb = 1 (set below)
+			yb[i] = 1
+		}
 	}
 	cases := []struct {
-		name string
-		fam  lasso.Family
-		x    [][]float64
-		y    []float64
-		want string
+		name    string
+		fam     lasso.Family
+		x       [][]float64
+		y       []float64
+		warning string // in Fit.Warning
+		reason  string // in NotEstimable of the first predictor
 	}{
-		{"collinear least squares", lasso.Gaussian{}, [][]float64{a, b}, y, "collinear"},
-		{"collinear logistic", lasso.Binomial{}, [][]float64{a, b}, sep, "collinear"},
+		{"collinear least squares", lasso.Gaussian{}, [][]float64{a, b}, y, "collinear", ""},
+		{"collinear logistic", lasso.Binomial{}, [][]float64{a, b}, yb, "collinear", ""},
+		{"complete separation", lasso.Binomial{}, [][]float64{a}, sep, "", "separation"},
+		{"quasi-complete separation by a level", lasso.Binomial{}, [][]float64{quasi, a}, yb, "", "all 100 rows with it have outcome 1"},
+		{"thin level, logistic", lasso.Binomial{}, [][]float64{thin, a}, yb, "", "only 3 rows with it"},
+		{"thin level, least squares", lasso.Gaussian{}, [][]float64{thin, a}, y, "", "only 3 rows with it"},
 	}
 	for _, c := range cases {
 		f, err := Regress(context.Background(), c.fam, c.x, c.y, nil)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if !strings.Contains(f.Warning, c.want) || !math.IsNaN(f.Coef[0]) {
-			t.Errorf("%s: warning %q, coefficient %g; want %q and NaN", c.name, f.Warning, f.Coef[0], c.want)
+		if c.warning != "" && !strings.Contains(f.Warning, c.warning) {
+			t.Errorf("%s: warning %q, want %q", c.name, f.Warning, c.warning)
 		}
-	}
-	// Perfect separation is never a silent number.
-	f, err := Regress(context.Background(), lasso.Binomial{}, [][]float64{a}, sep, nil)
-	if err != nil || f.Warning == "" {
-		t.Errorf("separation: warning %q, error %v", f.Warning, err)
+		if !strings.Contains(f.NotEstimable[0], c.reason) || (c.reason != "") != (f.NotEstimable[0] != "") {
+			t.Errorf("%s: reason %q, want %q", c.name, f.NotEstimable[0], c.reason)
+		}
+		if !math.IsNaN(f.Coef[0]) {
+			t.Errorf("%s: coefficient %g, want NaN (not estimable)", c.name, f.Coef[0])
+		}
+		if c.reason != "" && len(c.x) > 1 && math.IsNaN(f.Coef[1]) {
+			t.Errorf("%s: the other predictor was not estimated", c.name)
+		}
 	}
 }
 
 func TestRegressCancelled(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	x := []float64{0, 1, 0, 1, 1, 0}
-	y := []float64{0, 1, 1, 1, 0, 0}
+	rng := rand.New(rand.NewPCG(8, 9))
+	x, y := make([]float64, 200), make([]float64, 200)
+	for i := range x {
+		x[i] = rng.NormFloat64()
+		if rng.Float64() < 0.4 {
+			y[i] = 1
+		}
+	}
 	if _, err := Regress(ctx, lasso.Binomial{}, [][]float64{x}, y, nil); err != context.Canceled {
 		t.Errorf("error %v, want context.Canceled", err)
 	}
