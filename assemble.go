@@ -46,6 +46,7 @@ func (r *run) assemble(o *order.Order, fits []nodeFit) (*Result, error) {
 	res.Links = r.links(fits)
 	if r.cfg.Stability.Pairs > 0 {
 		res.Stability = r.stabilityReport(fits)
+		res.Stability.Vacuous = float64(res.Stability.ExpectedFalse) >= float64(len(res.Edges))
 	}
 	return res, nil
 }

@@ -373,3 +373,28 @@ func TestCategoricalPredictor(t *testing.T) {
 		t.Errorf("categorical response: %v", err)
 	}
 }
+
+// TestStabilityBoundExplained checks that a bound no smaller than the
+// number of edges kept is flagged as vacuous and explained in words.
+func TestStabilityBoundExplained(t *testing.T) {
+	d, o, _ := smallProblem(t, 5)
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 4, Stability: antecedent.Stability{Pairs: 10, Threshold: 0.55}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := res.Stability
+	want := float64(st.ExpectedFalse) >= float64(len(res.Edges))
+	if st.Vacuous != want {
+		t.Errorf("bound %.2f with %d edges: vacuous %v", float64(st.ExpectedFalse), len(res.Edges), st.Vacuous)
+	}
+	text := st.Explain()
+	for _, w := range []string{"exchangeab", "raise the threshold", "fewer candidates"} {
+		if !strings.Contains(text, w) {
+			t.Errorf("explanation lacks %q: %s", w, text)
+		}
+	}
+	if st.Vacuous != strings.Contains(text, "vacuous") {
+		t.Errorf("explanation and flag disagree: %s", text)
+	}
+	t.Logf("bound %.2f, %d edges: %s", float64(st.ExpectedFalse), len(res.Edges), text)
+}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
@@ -191,9 +192,28 @@ type StabilityReport struct {
 	// ExpectedFalse bounds the expected number of falsely selected edges
 	// over all nodes: the sum of the per-node bounds.
 	ExpectedFalse Number `json:"expected_false_edges"`
+	// Vacuous is true when ExpectedFalse is at least the number of edges
+	// selected by stability: the bound then cannot vouch for any of them.
+	Vacuous bool `json:"vacuous"`
 	// Nodes holds each fitted node's average selection count q, its
 	// number of penalised candidates p and its bound q²/((2π−1)p).
 	Nodes []StabilityNode `json:"nodes"`
+}
+
+// Explain says in words what the stability bound assumes, whether it is
+// vacuous, and how to tighten it.
+func (s *StabilityReport) Explain() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "The expected number of false edges is at most %.2f (Meinshausen & Bühlmann 2010, Theorem 1). "+
+		"The bound assumes that each false candidate is no more likely than the others to be selected on a half of the rows "+
+		"(exchangeability) and that selection is no worse than random guessing; it grows with the square of the number of "+
+		"parents picked per half and shrinks with the number of candidates.", float64(s.ExpectedFalse))
+	if s.Vacuous {
+		b.WriteString(" Here it is vacuous: it is no smaller than the number of edges kept, so it cannot vouch for any of them.")
+	}
+	b.WriteString(" To tighten it, raise the threshold, give fewer candidates (forbidden edges, a sparser order) or select fewer parents " +
+		"per half; more pairs sharpen the frequencies but not the bound.")
+	return b.String()
 }
 
 // StabilityNode is one node's share of the stability bound.

@@ -61,8 +61,7 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 		}
 	}
 	if st := res.Stability; st != nil {
-		fmt.Fprintf(w, "\nStability selection: %d complementary pairs, threshold %.2f; expected number of false edges ≤ %s (Meinshausen & Bühlmann bound).\n",
-			st.Pairs, st.Threshold, num(st.ExpectedFalse, 2))
+		fmt.Fprintf(w, "\nStability selection: %d complementary pairs, threshold %.2f.\n%s\n", st.Pairs, st.Threshold, wrap(st.Explain(), 100))
 	}
 	if len(res.Links) > 0 {
 		fmt.Fprintln(w, "\nSame-tier associations (undirected, not in the graph):")
@@ -153,4 +152,22 @@ func writeNode(w io.Writer, res *antecedent.Result, n *antecedent.Node, width in
 			fmt.Fprintf(w, "  %s    ← %s: %s%s\n", strings.Repeat(" ", width), e.Term, effect, freq)
 		}
 	}
+}
+
+// wrap breaks text into lines of at most width bytes at spaces.
+func wrap(text string, width int) string {
+	var b strings.Builder
+	line := 0
+	for i, word := range strings.Fields(text) {
+		if i > 0 && line+1+len(word) > width {
+			b.WriteByte('\n')
+			line = 0
+		} else if i > 0 {
+			b.WriteByte(' ')
+			line++
+		}
+		b.WriteString(word)
+		line += len(word)
+	}
+	return b.String()
 }
