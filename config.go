@@ -42,6 +42,9 @@ type Config struct {
 	// CV.Path.Family and CV.Path.PenaltyScale must be left unset; CV.Workers
 	// is not used (nodes are fitted in parallel, see Workers).
 	CV cv.Settings `json:"cv"`
+	// Selection is how parents are chosen from each node's path; zero
+	// means PenalisedLasso.
+	Selection Selection `json:"selection"`
 	// Families gives, by variable name, the loss of a variable fitted as a
 	// response in place of the one its kind implies (Gaussian for
 	// continuous, binomial for binary). It is not stored in the Result;
@@ -91,6 +94,9 @@ func (c *Config) resolve() (Config, error) {
 	}
 	if r.CV.Path.Family != nil || r.CV.Path.PenaltyScale != nil {
 		return r, &ConfigError{"CV.Path", "", "Family and PenaltyScale are set per node; use Config.Families and required edges"}
+	}
+	if r.Selection < PenalisedLasso || r.Selection > RelaxedLasso {
+		return r, &ConfigError{"Selection", fmt.Sprint(int(r.Selection)), "unknown selection"}
 	}
 	if r.Workers < 0 {
 		return r, &ConfigError{"Workers", fmt.Sprint(r.Workers), "must be 0 (one per CPU) or more"}

@@ -153,12 +153,25 @@ func (r *run) names(vs []int) []string {
 // unpenalised refit of their effects and, when asked, same-tier links. It
 // reads shared state only and returns the finished node.
 func (r *run) fitNode(ctx context.Context, p *nodePlan) (nodeFit, error) {
-	out, err := r.crossValidate(ctx, p, p.cols, p.owner, p.rows)
+	out, err := r.crossValidate(ctx, p, p.cols, p.owner, p.rows, p.penaltyScale(p.owner))
 	if err != nil {
 		return r.unfitted(p, err)
 	}
+	var chosen map[int]bool
+	switch r.cfg.Selection {
+	case AdaptiveLasso:
+		if out, err = r.adaptive(ctx, p, out); err != nil {
+			return nodeFit{}, err
+		}
+		chosen = out.chosen()
+	case RelaxedLasso:
+		if chosen, err = r.relaxed(ctx, p, out); err != nil {
+			return nodeFit{}, err
+		}
+	default:
+		chosen = out.chosen()
+	}
 	fit := nodeFit{node: r.describe(p, out)}
-	chosen := out.chosen()
 	if r.cfg.Stability.Pairs > 0 {
 		sel, counted, err := r.stable(ctx, p, out.res.Penalty())
 		if err != nil {
@@ -367,7 +380,7 @@ func (r *run) sameTier(ctx context.Context, p *nodePlan) ([]int, error) {
 	all := slices.Concat(p.cands, p.peers)
 	slices.Sort(all)
 	cols, owner := r.design(all)
-	out, err := r.crossValidate(ctx, p, cols, owner, r.rowsFor(p.v, all))
+	out, err := r.crossValidate(ctx, p, cols, owner, r.rowsFor(p.v, all), p.penaltyScale(owner))
 	if errors.Is(err, lasso.ErrConstantResponse) {
 		return nil, nil
 	}

@@ -43,12 +43,12 @@ func (e *tooFewRows) Error() string {
 }
 
 // crossValidate runs node p's cross-validated path on the design columns
-// cols (of variables owner) over rows. Gaussian nodes are solved from the
+// cols (of variables owner) over rows, with penalty factors scale. Gaussian nodes are solved from the
 // shared moments when there are some; other nodes get folds of their own,
 // stratified by the response for binomial nodes.
-func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows []int) (cvOut, error) {
+func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows []int, scale []float64) (cvOut, error) {
 	s := r.cfg.CV
-	s.Path, s.Workers = r.pathSettings(p, p.penaltyScale(owner)), 1
+	s.Path, s.Workers = r.pathSettings(p, scale), 1
 	out := cvOut{rows: rows, cols: cols, owner: owner}
 	if r.total != nil && p.role == gaussian && s.Measure != cv.MeanAbsoluteError {
 		res, err := cv.FitMoments(ctx, r.total, r.held, r.d.Terms(p.v)[0], cols, &s)
@@ -220,30 +220,87 @@ func (r *run) refitScore(ctx context.Context, p *nodePlan, parents []int, out cv
 	}
 	cols, _ := r.design(parents)
 	if out.res.FoldPaths == nil && r.total != nil && p.role == gaussian {
-		return r.refitScoreMoments(p, cols), nil
+		mse, vy := r.foldMSE(p, cols)
+		m, se := meanSE(mse)
+		return Score{Measure: "r2", Value: Number(1 - m/vy), SE: Number(se / vy)}, nil
 	}
+	pred, ys, err := r.foldPredictions(ctx, p, cols, out)
+	if err != nil {
+		return Score{}, err
+	}
+	return rowScore(p, pred, ys), nil
+}
+
+// refitLoss returns the cross-validated loss of the unpenalised refit on
+// the design columns cols, with its standard error: mean squared error for
+// Gaussian nodes (from the fold moments when they are shared), the mean
+// unit deviance otherwise.
+func (r *run) refitLoss(ctx context.Context, p *nodePlan, cols []int, out cvOut) (float64, float64, error) {
+	if out.res.FoldPaths == nil && r.total != nil && p.role == gaussian {
+		mse, _ := r.foldMSE(p, cols)
+		m, se := meanSE(mse)
+		return m, se, nil
+	}
+	pred, ys, err := r.foldPredictions(ctx, p, cols, out)
+	if err != nil {
+		return 0, 0, err
+	}
+	var s rowLoss
+	for f := range pred {
+		for i, y := range ys[f] {
+			s.add(p.family.Deviance(y, pred[f][i]))
+		}
+	}
+	return s.mean(), s.se(), nil
+}
+
+// foldPredictions refits node p on the design columns cols over each
+// training fold of out and returns the held-out means and responses by
+// fold.
+func (r *run) foldPredictions(ctx context.Context, p *nodePlan, cols []int, out cvOut) (pred, ys [][]float64, err error) {
 	x := make([][]float64, len(cols))
 	for t, c := range cols {
 		x[t] = r.cols[c]
 	}
-	pred := make([][]float64, out.folds.K)
-	ys := make([][]float64, out.folds.K)
+	pred = make([][]float64, out.folds.K)
+	ys = make([][]float64, out.folds.K)
 	for f := range out.folds.K {
 		train, held := out.folds.Split(f, out.rows)
 		fit, err := refit.Regress(ctx, p.family, x, p.y, train)
 		if err != nil {
-			return Score{}, err
+			return nil, nil, err
 		}
 		for _, i := range held {
 			eta := fit.Intercept
 			for t, c := range x {
-				eta += fit.Coef[t] * c[i]
+				if !math.IsNaN(fit.Coef[t]) { // a term not estimable is left out
+					eta += fit.Coef[t] * c[i]
+				}
 			}
 			pred[f] = append(pred[f], p.family.Mean(eta))
 			ys[f] = append(ys[f], p.y[i])
 		}
 	}
-	return rowScore(p, pred, ys), nil
+	return pred, ys, nil
+}
+
+// rowLoss accumulates losses for their mean and its standard error.
+type rowLoss struct{ n, s, s2 float64 }
+
+func (l *rowLoss) add(x float64) { l.n, l.s, l.s2 = l.n+1, l.s+x, l.s2+x*x }
+func (l rowLoss) mean() float64  { return l.s / l.n }
+func (l rowLoss) se() float64 {
+	m := l.mean()
+	return math.Sqrt(math.Max(l.s2/l.n-m*m, 0) / (l.n - 1))
+}
+
+// meanSE returns the mean of xs and the standard error of that mean.
+func meanSE(xs []float64) (float64, float64) {
+	var l rowLoss
+	for _, x := range xs {
+		l.add(x)
+	}
+	return l.mean(), l.se()
 }
 
 // rowScore scores held-out predictions by fold: fold-averaged AUC for
@@ -259,35 +316,27 @@ func rowScore(p *nodePlan, pred, y [][]float64) Score {
 	}
 	all, yy := slices.Concat(pred...), slices.Concat(y...)
 	mean, _ := meanVar(yy, nil)
-	loss := p.family.Deviance
-	var l, l2, null float64
+	var l, null rowLoss
 	for i, v := range yy {
-		e := loss(v, all[i])
-		l += e
-		l2 += e * e
-		null += loss(v, mean)
+		l.add(p.family.Deviance(v, all[i]))
+		null.add(p.family.Deviance(v, mean))
 	}
-	n := float64(len(yy))
-	if null <= 0 || n < 2 || math.IsNaN(l) {
+	if !(null.mean() > 0) || l.n < 2 {
 		return s
 	}
-	m := l / n
-	sd := math.Sqrt(math.Max(l2/n-m*m, 0))
-	s.Value = Number(1 - l/null)
-	s.SE = Number(sd / math.Sqrt(n-1) / (null / n))
+	s.Value = Number(1 - l.mean()/null.mean())
+	s.SE = Number(l.se() / null.mean())
 	return s
 }
 
-// refitScoreMoments refits a Gaussian node on the design columns cols of
-// its parents from each training fold's moments (the total less the fold)
-// and scores the fold's held-out rows from the fold's moments: R² = 1 −
-// CV mean squared error / variance, with the standard error of the fold
-// values (the folds are random here).
-func (r *run) refitScoreMoments(p *nodePlan, cols []int) Score {
+// foldMSE refits a Gaussian node on the design columns cols from each
+// training fold's moments (the total less the fold) and returns each
+// fold's held-out mean squared error, from the fold's moments, and the
+// response's variance over all rows.
+func (r *run) foldMSE(p *nodePlan, cols []int) ([]float64, float64) {
 	vars := append(slices.Clone(cols), r.d.Terms(p.v)[0])
 	total := restrict(r.total, nil, vars)
 	k := len(cols)
-	vy := total.Covariance(k, k)
 	mse := make([]float64, len(r.held))
 	for f, h := range r.held {
 		held := restrict(h, nil, vars)
@@ -295,16 +344,7 @@ func (r *run) refitScoreMoments(p *nodePlan, cols []int) Score {
 		fit := refit.LeastSquares(train, int(math.Round(train.Weight)))
 		mse[f] = heldOutSSE(held, fit) / held.Weight
 	}
-	var s, ss float64
-	for _, e := range mse {
-		s += e
-	}
-	m := s / float64(len(mse))
-	for _, e := range mse {
-		ss += (e - m) * (e - m)
-	}
-	se := math.Sqrt(ss/float64(len(mse)-1)) / math.Sqrt(float64(len(mse)))
-	return Score{Measure: "r2", Value: Number(1 - m/vy), SE: Number(se / vy)}
+	return mse, total.Covariance(k, k)
 }
 
 // restrict returns the moments of the variables vars taken from a, less b

@@ -105,9 +105,18 @@ func procedures() []procedure {
 		// frequency; thresholds are applied afterwards.
 		return &antecedent.Config{Seed: seed, Workers: 1, Stability: antecedent.Stability{Pairs: stabilityPairs, Threshold: 0.51}}
 	}
+	selection := func(sel antecedent.Selection, r cv.Rule) func(uint64) *antecedent.Config {
+		return func(seed uint64) *antecedent.Config {
+			return &antecedent.Config{Seed: seed, Workers: 1, Selection: sel, CV: cv.Settings{Rule: r}}
+		}
+	}
 	return []procedure{
 		{name: "minimum rule", cfg: rule(cv.MinimumLoss)},
 		{name: "one-SE rule", cfg: rule(cv.OneStandardError)},
+		{name: "adaptive one-SE", cfg: selection(antecedent.AdaptiveLasso, cv.OneStandardError)},
+		{name: "adaptive minimum", cfg: selection(antecedent.AdaptiveLasso, cv.MinimumLoss)},
+		{name: "relaxed one-SE", cfg: selection(antecedent.RelaxedLasso, cv.OneStandardError)},
+		{name: "relaxed minimum", cfg: selection(antecedent.RelaxedLasso, cv.MinimumLoss)},
 		{name: "stability ≥ 0.75", cfg: stable, keep: func(e dag.Edge) bool { return e.Frequency >= 0.75 }},
 		{name: "stability ≥ 0.9", cfg: stable, keep: func(e dag.Edge) bool { return e.Frequency >= 0.9 }},
 	}
@@ -127,6 +136,7 @@ type outcome struct {
 func main() {
 	log.SetFlags(0)
 	suiteName := flag.String("suite", "standard", "quick, standard or dense")
+	procNames := flag.String("procedures", "", "comma-separated procedure names to run (default all)")
 	networks := flag.Int("networks", 20, "networks per setting")
 	workers := flag.Int("workers", runtime.GOMAXPROCS(0), "networks run at once")
 	only := flag.String("only", "", "run only settings whose description contains this text")
@@ -136,6 +146,10 @@ func main() {
 		log.Fatal(err)
 	}
 	procs := procedures()
+	if *procNames != "" {
+		want := strings.Split(*procNames, ",")
+		procs = slices.DeleteFunc(procs, func(p procedure) bool { return !slices.Contains(want, p.name) })
+	}
 	start := time.Now()
 	w := os.Stdout
 	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds 1…%d; %s, %d cores.\n\n", *suiteName, *networks, *networks, runtime.Version(), runtime.NumCPU())
@@ -150,7 +164,11 @@ func main() {
 		for pi, p := range procs {
 			printRow(w, s, p.name, res[pi])
 		}
-		for _, o := range res[len(procs)-1] {
+		si := slices.IndexFunc(procs, func(p procedure) bool { return strings.HasPrefix(p.name, "stability") })
+		if si < 0 {
+			continue
+		}
+		for _, o := range res[si] {
 			c := calib[s.kind]
 			if c == nil {
 				c = make([][2]int, len(calibrationThresholds))

@@ -1,0 +1,137 @@
+package antecedent
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"slices"
+
+	"github.com/antecedent-lab/antecedent/cv"
+)
+
+// Selection is how a node's parents are chosen from its cross-validated
+// lasso path (stability selection, when on, replaces it).
+type Selection int
+
+const (
+	// PenalisedLasso keeps the predictors that are non-zero in the lasso
+	// fit at the penalty chosen by Config.CV.Rule.
+	PenalisedLasso Selection = iota
+	// AdaptiveLasso (Zou 2006, JASA 101:1418–1429) fits a second
+	// cross-validated lasso on the predictors that are non-zero at the
+	// first path's minimum-loss penalty, each penalised in inverse
+	// proportion to the size of its first-stage coefficient per standard
+	// deviation, and keeps its non-zero predictors at the penalty chosen
+	// by Config.CV.Rule.
+	AdaptiveLasso
+	// RelaxedLasso (Meinshausen 2007, CSDA 52:374–393, with the
+	// relaxation fully relaxed) takes each distinct set of predictors met
+	// along the first path down to its minimum-loss penalty, refits it
+	// without penalty on every training fold, and keeps the set whose
+	// refit has the best cross-validated loss, or under the one-SE rule the
+	// smallest set within one standard error of it.
+	RelaxedLasso
+)
+
+var selectionNames = []string{"lasso", "adaptive", "relaxed"}
+
+// String returns the selection's name.
+func (s Selection) String() string {
+	if s >= 0 && int(s) < len(selectionNames) {
+		return selectionNames[s]
+	}
+	return fmt.Sprintf("Selection(%d)", int(s))
+}
+
+// MarshalText implements encoding.TextMarshaler.
+func (s Selection) MarshalText() ([]byte, error) { return []byte(s.String()), nil }
+
+// UnmarshalText implements encoding.TextUnmarshaler.
+func (s *Selection) UnmarshalText(b []byte) error {
+	i := slices.Index(selectionNames, string(b))
+	if i < 0 {
+		return fmt.Errorf("antecedent: unknown selection %q (want lasso, adaptive or relaxed)", b)
+	}
+	*s = Selection(i)
+	return nil
+}
+
+// adaptive runs the second stage of the adaptive lasso on node p after the
+// first cross-validated path out.
+func (r *run) adaptive(ctx context.Context, p *nodePlan, out cvOut) (cvOut, error) {
+	_, b := out.res.Full.Dense(out.res.Best)
+	var cols, owner []int
+	var scale []float64
+	for t, c := range out.cols {
+		required := slices.Contains(p.required, out.owner[t])
+		size := math.Abs(b[t]) * r.sd(c, out.rows)
+		if !required && !(size > 0) {
+			continue
+		}
+		cols, owner = append(cols, c), append(owner, out.owner[t])
+		if required {
+			scale = append(scale, 0)
+		} else {
+			scale = append(scale, 1/size)
+		}
+	}
+	if len(cols) == 0 {
+		return out, nil // nothing entered: the first stage's empty model stands
+	}
+	return r.crossValidate(ctx, p, cols, owner, out.rows, scale)
+}
+
+// relaxed returns the variables of the relaxed lasso's choice for node p
+// along its first path out.
+func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool, error) {
+	full := out.res.Full
+	var sets [][]int // design columns, in order of entry
+	var means, ses []float64
+	seen := map[string]bool{}
+	for k := 0; k <= min(out.res.Best, full.Len()-1); k++ {
+		var set []int
+		for _, t := range full.Coefficients[k].Index {
+			set = append(set, t)
+		}
+		for t, q := range out.owner {
+			if slices.Contains(p.required, q) && !slices.Contains(set, t) {
+				set = append(set, t)
+			}
+		}
+		slices.Sort(set)
+		key := fmt.Sprint(set)
+		if seen[key] {
+			continue
+		}
+		seen[key] = true
+		cols := make([]int, len(set))
+		for i, t := range set {
+			cols[i] = out.cols[t]
+		}
+		m, se, err := r.refitLoss(ctx, p, cols, out)
+		if err != nil {
+			return nil, err
+		}
+		sets, means, ses = append(sets, set), append(means, m), append(ses, se)
+	}
+	best := 0
+	for i := range means {
+		if means[i] < means[best] {
+			best = i
+		}
+	}
+	pick := best
+	if r.cfg.CV.Rule == cv.OneStandardError { // the first (smallest) set within one SE
+		for i := range means {
+			if means[i] <= means[best]+ses[best] {
+				pick = i
+				break
+			}
+		}
+	}
+	chosen := map[int]bool{}
+	for _, t := range sets[pick] {
+		chosen[out.owner[t]] = true
+	}
+	return chosen, nil
+}
