@@ -15,7 +15,7 @@ import (
 // effects, the graph's Markov blankets, same-tier links, warnings and the
 // stability report.
 func (r *run) assemble(o *order.Order, fits []nodeFit) (*Result, error) {
-	res := &Result{Order: o, Config: r.cfg, Rows: r.d.Rows(), Nodes: make([]Node, len(fits))}
+	res := &Result{Order: o, Config: r.cfg, Rows: r.d.Rows(), Nodes: make([]Node, len(fits)), Edges: []dag.Edge{}}
 	res.Config.Progress = nil
 	names := make([]string, len(fits))
 	for v, f := range fits {
@@ -28,7 +28,7 @@ func (r *run) assemble(o *order.Order, fits []nodeFit) (*Result, error) {
 	if err != nil {
 		return nil, fmt.Errorf("antecedent: internal error building the graph: %w", err)
 	}
-	res.Warnings = slices.Clone(r.warnings)
+	res.Warnings = append([]string{}, r.warnings...)
 	for v, f := range fits {
 		res.Nodes[v] = f.node
 		mb, _ := g.MarkovBlanket(f.node.Name)
@@ -94,11 +94,11 @@ func (r *run) links(fits []nodeFit) []Link {
 		}
 	}
 	keys := make([][2]int, 0, len(seen))
+	links := []Link{}
 	for k := range seen {
 		keys = append(keys, k)
 	}
 	slices.SortFunc(keys, func(a, b [2]int) int { return cmp.Or(a[0]-b[0], a[1]-b[1]) })
-	var links []Link
 	for _, k := range keys {
 		links = append(links, Link{A: r.vars[k[0]].Name, B: r.vars[k[1]].Name, Both: seen[k] == 2})
 	}

@@ -38,7 +38,9 @@ type Config struct {
 	// CV.Path the solver (mixing, penalty grid, tolerance; lasso's
 	// defaults), CV.Measure the held-out loss and CV.Rule the penalty
 	// choice (cv's defaults: deviance and the one-standard-error rule).
-	// Each node's family and penalty factors are set per node, so
+	// A measure for 0/1 responses (AUC, misclassification) applies to
+	// binary nodes; the others use deviance, and each node records the
+	// measure it used. Each node's family and penalty factors are set per node, so
 	// CV.Path.Family and CV.Path.PenaltyScale must be left unset; CV.Workers
 	// is not used (nodes are fitted in parallel, see Workers).
 	CV cv.Settings `json:"cv"`

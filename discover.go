@@ -39,6 +39,9 @@ func Discover(d *table.Dataset, o *order.Order) (*Result, error) {
 // The same data, order and configuration give the same result for any
 // number of workers.
 func DiscoverContext(ctx context.Context, d *table.Dataset, o *order.Order, c *Config) (*Result, error) {
+	if ctx == nil {
+		return nil, fmt.Errorf("%w: nil context (use context.Background())", ErrConfig)
+	}
 	start := time.Now()
 	cfg, err := c.resolve()
 	if err != nil {

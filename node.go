@@ -129,7 +129,12 @@ func (r *run) newNode(p *nodePlan) Node {
 		Name: vr.Name, Kind: vr.Kind, Family: p.family.Name(), Tier: tier + 1,
 		Candidates: r.names(p.cands), Required: r.names(p.required), Parents: r.names(p.required),
 		Penalty: nan(), BestPenalty: nan(), OneSEPenalty: nan(), Rule: r.cfg.CV.Rule, Measure: r.cfg.CV.Measure,
+		MarkovBlanket: []string{}, Warnings: []string{},
 		Score: Score{Value: nan(), SE: nan()}, PenalisedScore: Score{Value: nan(), SE: nan()}, Intercept: nan(),
+	}
+	n.Rows = len(p.y)
+	if p.rows != nil {
+		n.Rows = len(p.rows)
 	}
 	if vr.Kind == table.Categorical {
 		n.Family = ""
@@ -230,10 +235,6 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 	n := r.newNode(p)
 	res, full := out.res, out.res.Full
 	n.Fitted = true
-	n.Rows = len(p.y)
-	if out.rows != nil {
-		n.Rows = len(out.rows)
-	}
 	n.Penalty = Number(res.Penalty())
 	n.BestPenalty = Number(res.Curve[res.Best].Penalty)
 	n.OneSEPenalty = Number(res.Curve[res.OneSE].Penalty)
@@ -246,6 +247,7 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 		n.Curve = append(n.Curve, CurvePoint{Penalty: Number(c.Penalty), Mean: Number(c.Mean), SE: Number(c.SE), NonZero: c.NonZero})
 	}
 	n.Path = r.coefficientPath(out)
+	n.Penalised = []Term{}
 	_, sel := res.Model()
 	for t, x := range sel {
 		if x != 0 {
@@ -345,7 +347,7 @@ func (r *run) effects(ctx context.Context, p *nodePlan, parents []int, warnings 
 		*warnings = append(*warnings, f.Warning)
 	}
 	k := len(cols)
-	var effects []Effect
+	effects := []Effect{}
 	for t, c := range cols {
 		est, se := f.Coef[t], f.SE[t]
 		e := Effect{

@@ -1,7 +1,9 @@
 package antecedent_test
 
 import (
+	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"math"
@@ -241,4 +243,57 @@ func sameBits(a, b []float64) bool {
 		}
 	}
 	return true
+}
+
+// TestSurfaceDetails checks small promises of the embedding API: a nil
+// context is an error, not a panic; a measure for 0/1 responses applies to
+// binary nodes while continuous ones use deviance; every key of the result
+// JSON is present, empty lists as [] and unknown values as null.
+func TestSurfaceDetails(t *testing.T) {
+	d, o, _ := smallProblem(t, 8)
+	if _, err := antecedent.DiscoverContext(nil, d, o, nil); !errors.Is(err, antecedent.ErrConfig) {
+		t.Errorf("nil context: %v", err)
+	}
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 1, CV: cv.Settings{Measure: cv.AreaUnderCurve}})
+	if err != nil {
+		t.Fatalf("AUC on a mixed network: %v", err)
+	}
+	for _, n := range res.Nodes {
+		if !n.Fitted {
+			if n.Rows != d.Rows() {
+				t.Errorf("%s: rows %d, want %d", n.Name, n.Rows, d.Rows())
+			}
+			continue
+		}
+		want := cv.Deviance
+		if n.Kind == table.Binary {
+			want = cv.AreaUnderCurve
+		}
+		if n.Measure != want {
+			t.Errorf("%s (%v): measure %v, want %v", n.Name, n.Kind, n.Measure, want)
+		}
+	}
+	var buf bytes.Buffer
+	if err := res.WriteJSON(&buf); err != nil {
+		t.Fatal(err)
+	}
+	var raw map[string]json.RawMessage
+	if err := json.Unmarshal(buf.Bytes(), &raw); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"nodes", "edges", "links", "order", "config", "rows", "stability", "warnings", "timings"} {
+		if _, ok := raw[k]; !ok {
+			t.Errorf("result JSON lacks %q", k)
+		}
+	}
+	if string(raw["links"]) != "[]" || string(raw["stability"]) != "null" {
+		t.Errorf("links %s, stability %s; want [] and null", raw["links"], raw["stability"])
+	}
+	var nodes []map[string]json.RawMessage
+	json.Unmarshal(raw["nodes"], &nodes)
+	for _, k := range []string{"required", "warnings", "curve", "effects", "tier_label", "markov_blanket"} {
+		if _, ok := nodes[0][k]; !ok {
+			t.Errorf("first node lacks %q", k)
+		}
+	}
 }

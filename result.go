@@ -43,7 +43,7 @@ type Result struct {
 	Edges []dag.Edge `json:"edges"`
 	// Links are same-tier associations (Config.SameTier), undirected and
 	// outside the graph.
-	Links []Link `json:"links,omitempty"`
+	Links []Link `json:"links"`
 	// Order is the temporal order used.
 	Order *order.Order `json:"order"`
 	// Config is the configuration used, defaults filled in.
@@ -51,10 +51,10 @@ type Result struct {
 	// Rows is the number of rows in the dataset.
 	Rows int `json:"rows"`
 	// Stability reports the stability selection, when it was on.
-	Stability *StabilityReport `json:"stability,omitempty"`
+	Stability *StabilityReport `json:"stability"`
 	// Warnings lists conditions a reader should know about (constant
 	// variables, separation, dropped rows).
-	Warnings []string `json:"warnings,omitempty"`
+	Warnings []string `json:"warnings"`
 	// Timings gives wall-clock seconds per stage.
 	Timings Timings `json:"timings"`
 }
@@ -77,11 +77,11 @@ type Node struct {
 	// Tier is the node's tier, counted from 1 for the earliest.
 	Tier int `json:"tier"`
 	// TierLabel is the tier's label from the order, if any.
-	TierLabel string `json:"tier_label,omitempty"`
+	TierLabel string `json:"tier_label"`
 	// Rows is the number of rows the node was fitted on.
 	Rows       int      `json:"rows"`
 	Candidates []string `json:"candidates"`
-	Required   []string `json:"required,omitempty"`
+	Required   []string `json:"required"`
 	Parents    []string `json:"parents"`
 	// MarkovBlanket lists parents, children and the children's other
 	// parents.
@@ -106,18 +106,18 @@ type Node struct {
 	// selected penalty: the figure the penalty was chosen on.
 	PenalisedScore Score `json:"penalised_score"`
 	// Curve is the cross-validation curve.
-	Curve []CurvePoint `json:"curve,omitempty"`
+	Curve []CurvePoint `json:"curve"`
 	// Path holds the coefficient paths of the full-data fit.
-	Path *CoefficientPath `json:"path,omitempty"`
+	Path *CoefficientPath `json:"path"`
 	// Penalised holds the non-zero penalised coefficients at the
 	// selected penalty (original scale).
-	Penalised []Term `json:"penalised,omitempty"`
+	Penalised []Term `json:"penalised"`
 	// Intercept and Effects come from the unpenalised refit on the parents.
 	Intercept Number   `json:"intercept"`
-	Effects   []Effect `json:"effects,omitempty"`
+	Effects   []Effect `json:"effects"`
 	// Status is how the full-data path ended.
-	Status   string   `json:"status,omitempty"`
-	Warnings []string `json:"warnings,omitempty"`
+	Status   string   `json:"status"`
+	Warnings []string `json:"warnings"`
 }
 
 // Score is a cross-validated score with its standard error.
@@ -127,7 +127,7 @@ type Score struct {
 	// SE is the standard error of Value.
 	SE Number `json:"se"`
 	// Note qualifies the value ("no parents: chance level").
-	Note string `json:"note,omitempty"`
+	Note string `json:"note"`
 }
 
 // CurvePoint is one penalty of a cross-validation curve.
@@ -174,7 +174,7 @@ type Effect struct {
 	// NotEstimable says why the effect was not estimated (its numbers are
 	// then null): a level with too few rows, or a parent that separates a
 	// binary child's outcome.
-	NotEstimable string `json:"not_estimable,omitempty"`
+	NotEstimable string `json:"not_estimable"`
 }
 
 // Link is an undirected same-tier association.

@@ -49,6 +49,9 @@ func (e *tooFewRows) Error() string {
 func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows []int, scale []float64) (cvOut, error) {
 	s := r.cfg.CV
 	s.Path, s.Workers = r.pathSettings(p, scale), 1
+	if p.role != binomial && (s.Measure == cv.AreaUnderCurve || s.Measure == cv.Misclassification) {
+		s.Measure = cv.Deviance // a measure for 0/1 responses applies to binary nodes only
+	}
 	out := cvOut{rows: rows, cols: cols, owner: owner}
 	if r.total != nil && p.role == gaussian && s.Measure != cv.MeanAbsoluteError {
 		res, err := cv.FitMoments(ctx, r.total, r.held, r.d.Terms(p.v)[0], cols, &s)

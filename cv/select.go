@@ -37,9 +37,9 @@ func (r Rule) String() string {
 // ParseRule returns the rule with the given short name.
 func ParseRule(s string) (Rule, error) {
 	switch s {
-	case "minimum", "min":
+	case "minimum":
 		return MinimumLoss, nil
-	case "one-se", "1se":
+	case "one-se":
 		return OneStandardError, nil
 	}
 	return 0, fmt.Errorf("cv: unknown rule %q (want minimum or one-se)", s)
