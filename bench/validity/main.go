@@ -19,6 +19,7 @@ import (
 	"log"
 	"math"
 	"os"
+	"regexp"
 	"runtime"
 	"slices"
 	"sort"
@@ -43,7 +44,7 @@ type setting struct {
 }
 
 func (s setting) String() string {
-	return fmt.Sprintf("%s n=%d p=%d %.0f parents %s", s.kind, s.n, s.p, s.parents, s.strength)
+	return fmt.Sprintf("%s n=%d p=%d %g parents %s", s.kind, s.n, s.p, s.parents, s.strength)
 }
 
 // procedure is one way of choosing parents.
@@ -139,9 +140,13 @@ func main() {
 	procNames := flag.String("procedures", "", "comma-separated procedure names to run (default all)")
 	networks := flag.Int("networks", 20, "networks per setting")
 	workers := flag.Int("workers", runtime.GOMAXPROCS(0), "networks run at once")
-	only := flag.String("only", "", "run only settings whose description contains this text")
+	only := flag.String("only", "", "run only settings whose description matches this regular expression")
 	flag.Parse()
 	settings, err := suite(*suiteName)
+	if err != nil {
+		log.Fatal(err)
+	}
+	match, err := regexp.Compile(*only)
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -157,7 +162,7 @@ func main() {
 	fmt.Fprintln(w, "|---|---|---|---|---|---|---|")
 	calib := map[string][][2]int{} // kind → per threshold (true, total)
 	for _, s := range settings {
-		if *only != "" && !strings.Contains(s.String(), *only) {
+		if !match.MatchString(s.String()) {
 			continue
 		}
 		res := run(s, procs, *networks, *workers)
