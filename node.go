@@ -177,12 +177,14 @@ func (r *run) fitNode(ctx context.Context, p *nodePlan) (nodeFit, error) {
 		chosen = out.chosen()
 	}
 	fit := nodeFit{node: r.describe(p, out)}
+	fit.node.Selection = r.cfg.Selection.String()
 	if r.cfg.Stability.Pairs > 0 {
 		sel, counted, err := r.stable(ctx, p, out.res.Penalty())
 		if err != nil {
 			return fit, err
 		}
 		fit.selection, fit.counted = &sel, counted
+		fit.node.Selection = "stability"
 		chosen = map[int]bool{}
 		for q, f := range sel.Frequency {
 			if f >= r.cfg.Stability.Threshold {
@@ -251,7 +253,7 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 	_, sel := res.Model()
 	for t, x := range sel {
 		if x != 0 {
-			n.Penalised = append(n.Penalised, Term{Term: r.d.TermName(out.cols[t]), Variable: r.vars[out.owner[t]].Name, Value: Number(x)})
+			n.Penalised = append(n.Penalised, Term{Term: r.d.TermName(out.cols[t]), Variable: r.vars[out.owner[t]].Name, Value: Number(x), Weight: Number(out.scale[t])})
 		}
 	}
 	n.PenalisedScore = r.penalisedScore(p, out)

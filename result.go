@@ -109,8 +109,11 @@ type Node struct {
 	Curve []CurvePoint `json:"curve"`
 	// Path holds the coefficient paths of the full-data fit.
 	Path *CoefficientPath `json:"path"`
+	// Selection names the procedure that chose the parents: "lasso",
+	// "adaptive", "relaxed" or "stability".
+	Selection string `json:"selection"`
 	// Penalised holds the non-zero penalised coefficients at the
-	// selected penalty (original scale).
+	// selected penalty (original scale), with their penalty factors.
 	Penalised []Term `json:"penalised"`
 	// Intercept and Effects come from the unpenalised refit on the parents.
 	Intercept Number   `json:"intercept"`
@@ -153,6 +156,10 @@ type Term struct {
 	Term     string `json:"term"`
 	Variable string `json:"variable"`
 	Value    Number `json:"value"`
+	// Weight is the term's penalty factor: 1 under the plain lasso, the
+	// inverse of its first-stage size per standard deviation under the
+	// adaptive lasso, 0 for a required parent.
+	Weight Number `json:"weight"`
 }
 
 // Effect is the unpenalised refit estimate of one parent term, with its

@@ -18,6 +18,7 @@ type cvOut struct {
 	rows  []int // rows used (nil: every row)
 	cols  []int // design columns of the predictors
 	owner []int // variable of each design column
+	scale []float64 // penalty factor of each design column
 	folds *cv.Folds
 	oof   *foldScores
 }
@@ -52,7 +53,7 @@ func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows 
 	if p.role != binomial && (s.Measure == cv.AreaUnderCurve || s.Measure == cv.Misclassification) {
 		s.Measure = cv.Deviance // a measure for 0/1 responses applies to binary nodes only
 	}
-	out := cvOut{rows: rows, cols: cols, owner: owner}
+	out := cvOut{rows: rows, cols: cols, owner: owner, scale: scale}
 	if r.total != nil && p.role == gaussian && s.Measure != cv.MeanAbsoluteError {
 		res, err := cv.FitMoments(ctx, r.total, r.held, r.d.Terms(p.v)[0], cols, &s)
 		out.res, out.folds = res, r.folds
