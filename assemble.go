@@ -47,6 +47,7 @@ func (r *run) assemble(o *order.Order, fits []nodeFit) (*Result, error) {
 	if r.cfg.Stability.Pairs > 0 {
 		res.Stability = r.stabilityReport(fits)
 		res.Stability.Vacuous = float64(res.Stability.ExpectedFalse) >= float64(len(res.Edges))
+		res.Stability.Explanation = res.Stability.explain()
 	}
 	return res, nil
 }

@@ -387,7 +387,7 @@ func TestStabilityBoundExplained(t *testing.T) {
 	if st.Vacuous != want {
 		t.Errorf("bound %.2f with %d edges: vacuous %v", float64(st.ExpectedFalse), len(res.Edges), st.Vacuous)
 	}
-	text := st.Explain()
+	text := st.Explanation
 	for _, w := range []string{"exchangeab", "raise the threshold", "fewer candidates"} {
 		if !strings.Contains(text, w) {
 			t.Errorf("explanation lacks %q: %s", w, text)

@@ -15,18 +15,9 @@ import (
 )
 
 // Number is a float64 that is written to JSON as null when it is NaN or
-// infinite (unknown or undefined) and read back as NaN.
-type Number float64
-
-// MarshalJSON implements json.Marshaler.
-func (x Number) MarshalJSON() ([]byte, error) { return jsonfloat.Marshal(float64(x)) }
-
-// UnmarshalJSON implements json.Unmarshaler.
-func (x *Number) UnmarshalJSON(b []byte) error {
-	f, err := jsonfloat.Unmarshal(b)
-	*x = Number(f)
-	return err
-}
+// infinite (unknown or undefined) and read back as NaN. It is the same
+// type as the one dag's edges use for their JSON form.
+type Number = jsonfloat.Float
 
 func nan() Number { return Number(math.NaN()) }
 
@@ -202,14 +193,17 @@ type StabilityReport struct {
 	// Vacuous is true when ExpectedFalse is at least the number of edges
 	// selected by stability: the bound then cannot vouch for any of them.
 	Vacuous bool `json:"vacuous"`
+	// Explanation says in words what the bound assumes, whether it is
+	// vacuous, and how to tighten it.
+	Explanation string `json:"explanation"`
 	// Nodes holds each fitted node's average selection count q, its
 	// number of penalised candidates p and its bound q²/((2π−1)p).
 	Nodes []StabilityNode `json:"nodes"`
 }
 
-// Explain says in words what the stability bound assumes, whether it is
+// explain says in words what the stability bound assumes, whether it is
 // vacuous, and how to tighten it.
-func (s *StabilityReport) Explain() string {
+func (s *StabilityReport) explain() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "The expected number of false edges is at most %.2f (Meinshausen & Bühlmann 2010, Theorem 1). "+
 		"The bound assumes that each false candidate is no more likely than the others to be selected on a half of the rows "+

@@ -61,7 +61,7 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 		}
 	}
 	if st := res.Stability; st != nil {
-		fmt.Fprintf(w, "\nStability selection: %d complementary pairs, threshold %.2f.\n%s\n", st.Pairs, st.Threshold, wrap(st.Explain(), 100))
+		fmt.Fprintf(w, "\nStability selection: %d complementary pairs, threshold %.2f.\n%s\n", st.Pairs, st.Threshold, wrap(st.Explanation, 100))
 	}
 	if len(res.Links) > 0 {
 		fmt.Fprintln(w, "\nSame-tier associations (undirected, not in the graph):")

@@ -27,7 +27,8 @@ func Unmarshal(b []byte) (float64, error) {
 	return x, err
 }
 
-// Float is a float64 whose JSON form is that of Marshal and Unmarshal.
+// Float is a float64 whose JSON form is that of Marshal and Unmarshal: NaN
+// and ±Inf are written as null, and null is read as NaN.
 type Float float64
 
 // MarshalJSON implements json.Marshaler.
