@@ -138,7 +138,12 @@ func (s *Service) Wait() {
 	s.cancel()
 }
 
-func (s *Service) tooBusy(w http.ResponseWriter, why string) {
+// tooBusy refuses r with 503 and Retry-After. It first reads what is left
+// of the body (at most MaxBytes, within the read timeout, into a small
+// buffer): a server that closes a connection with unread data resets it,
+// and the client, still sending, would never see the refusal.
+func (s *Service) tooBusy(w http.ResponseWriter, r *http.Request, why string) {
+	io.Copy(io.Discard, http.MaxBytesReader(w, r.Body, s.lim.MaxBytes))
 	s.busy.Add(1)
 	w.Header().Set("Retry-After", strconv.Itoa(int((s.lim.RetryAfter+time.Second-1)/time.Second)))
 	httpError(w, http.StatusServiceUnavailable, why)
@@ -152,13 +157,13 @@ func (s *Service) ServeHTTP(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if s.closing.Load() {
-		s.tooBusy(w, "the service is shutting down; try again later")
+		s.tooBusy(w, r, "the service is shutting down; try again later")
 		return
 	}
 	select {
 	case s.inside <- struct{}{}:
 	default:
-		s.tooBusy(w, fmt.Sprintf("busy: %d discoveries running and %d waiting; try again later", s.lim.MaxRunning, s.lim.MaxWaiting))
+		s.tooBusy(w, r, fmt.Sprintf("busy: %d discoveries running and %d waiting; try again later", s.lim.MaxRunning, s.lim.MaxWaiting))
 		return
 	}
 	s.wg.Add(1)
@@ -244,7 +249,7 @@ func (s *Service) serve(w http.ResponseWriter, r *http.Request) {
 		s.abandoned.Add(1)
 		return
 	case <-s.jobs.Done():
-		s.tooBusy(w, "the service is shutting down; try again later")
+		s.tooBusy(w, r, "the service is shutting down; try again later")
 		return
 	}
 	ctx, cancel := context.WithTimeout(r.Context(), lim.MaxTime)
@@ -261,7 +266,7 @@ func (s *Service) serve(w http.ResponseWriter, r *http.Request) {
 		s.abandoned.Add(1)
 		return // the client went away
 	case s.jobs.Err() != nil:
-		s.tooBusy(w, "the service shut down before the discovery finished; try again later")
+		s.tooBusy(w, r, "the service shut down before the discovery finished; try again later")
 		return
 	default:
 		httpError(w, http.StatusUnprocessableEntity, oneLine(err.Error()))
