@@ -31,6 +31,10 @@ type Order struct {
 	Required []Edge
 }
 
+// ErrNotText is returned by WriteText for an order the text form cannot
+// carry; MarshalJSON writes every order.
+var ErrNotText = errors.New("order: cannot be written in the text form (use the JSON form)")
+
 // ErrSyntax is wrapped by every ParseError.
 var ErrSyntax = errors.New("order: syntax error")
 
@@ -304,8 +308,15 @@ func fields(s string, commas bool) ([]string, error) {
 	return out, nil
 }
 
-// WriteText writes the text form of o to w; Parse reads it back.
+// WriteText writes the text form of o to w; Parse reads it back equal. It
+// writes nothing and returns an error wrapping ErrNotText when o holds what
+// the text form cannot carry: an empty name or one with a double quote or a
+// line break, or a tier label with one of `:#"`, a line break or white
+// space at either end, or more non-empty labels than tiers.
 func (o *Order) WriteText(w io.Writer) error {
+	if err := o.textable(); err != nil {
+		return err
+	}
 	bw := bufio.NewWriter(w)
 	for t, names := range o.Tiers {
 		label := ""
@@ -325,6 +336,36 @@ func (o *Order) WriteText(w io.Writer) error {
 		fmt.Fprintf(bw, "require %s -> %s\n", quote(e.From), quote(e.To))
 	}
 	return bw.Flush()
+}
+
+func (o *Order) textable() error {
+	names := func(ns ...string) error {
+		for _, n := range ns {
+			if n == "" || strings.ContainsAny(n, "\"\n\r") {
+				return fmt.Errorf("%w: name %q", ErrNotText, n)
+			}
+		}
+		return nil
+	}
+	for _, t := range o.Tiers {
+		if err := names(t...); err != nil {
+			return err
+		}
+	}
+	for _, e := range append(append([]Edge{}, o.Forbidden...), o.Required...) {
+		if err := names(e.From, e.To); err != nil {
+			return err
+		}
+	}
+	for i, l := range o.Labels {
+		switch {
+		case i >= len(o.Tiers) && l != "":
+			return fmt.Errorf("%w: label %q without a tier", ErrNotText, l)
+		case l != strings.TrimSpace(l) || strings.ContainsAny(l, ":#\"\n\r"):
+			return fmt.Errorf("%w: tier label %q", ErrNotText, l)
+		}
+	}
+	return nil
 }
 
 func quote(s string) string {

@@ -172,3 +172,20 @@ func TestFromTimes(t *testing.T) {
 		t.Error("duplicate accepted")
 	}
 }
+
+func TestWriteTextRefusesWhatTextCannotCarry(t *testing.T) {
+	cases := map[string]*order.Order{
+		"quote in a name":      {Tiers: [][]string{{`a"b`}}},
+		"line break in edge":   {Tiers: [][]string{{"a"}, {"b"}}, Required: []order.Edge{{"a", "b\nc"}}},
+		"colon in a label":     {Tiers: [][]string{{"a"}}, Labels: []string{"week: 1"}},
+		"label without tier":   {Tiers: [][]string{{"a"}}, Labels: []string{"", "later"}},
+		"space around label":   {Tiers: [][]string{{"a"}}, Labels: []string{" x"}},
+		"empty name in a tier": {Tiers: [][]string{{""}}},
+	}
+	for name, o := range cases {
+		var b bytes.Buffer
+		if err := o.WriteText(&b); !errors.Is(err, order.ErrNotText) || b.Len() > 0 {
+			t.Errorf("%s: wrote %q, error %v", name, b.Bytes(), err)
+		}
+	}
+}

@@ -51,7 +51,7 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		}
 	}
 	ropts := &report.Options{Title: "Recovery after joint replacement — synthetic demonstration", Truth: truth}
-	if err := s.outputs(res, ropts); err != nil {
+	if err := s.outputs(ctx, res, ropts); err != nil {
 		return err
 	}
 	if !s.quiet {

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"errors"
 	"flag"
@@ -12,6 +11,7 @@ import (
 
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
+	"github.com/antecedent-lab/antecedent/internal/atomicfile"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/report"
 	"github.com/antecedent-lab/antecedent/table"
@@ -94,8 +94,10 @@ func (s *settings) discover(ctx context.Context, d *table.Dataset, o *order.Orde
 	return antecedent.DiscoverContext(ctx, d, o, cfg)
 }
 
-// outputs writes the requested exports, refusing to overwrite inputs.
-func (s *settings) outputs(res *antecedent.Result, ropts *report.Options, inputs ...string) error {
+// outputs writes the requested exports, refusing to overwrite inputs. Each
+// file is written whole beside its target and renamed into place, so an
+// error or an interrupt (ctx) leaves the old file, never a truncated one.
+func (s *settings) outputs(ctx context.Context, res *antecedent.Result, ropts *report.Options, inputs ...string) error {
 	type out struct {
 		path  string
 		write func(io.Writer) error
@@ -126,11 +128,7 @@ func (s *settings) outputs(res *antecedent.Result, ropts *report.Options, inputs
 				return usageError{fmt.Sprintf("refusing to write %s over the input file %s", o.path, in)}
 			}
 		}
-		var buf bytes.Buffer
-		if err := o.write(&buf); err != nil {
-			return err
-		}
-		if err := os.WriteFile(o.path, buf.Bytes(), 0o644); err != nil {
+		if err := atomicfile.Write(ctx, o.path, 0o644, o.write); err != nil {
 			return err
 		}
 	}
@@ -179,7 +177,7 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	if err := s.outputs(res, &report.Options{Title: "Discovered network: " + filepath.Base(*dataPath)}, *dataPath, *orderPath); err != nil {
+	if err := s.outputs(ctx, res, &report.Options{Title: "Discovered network: " + filepath.Base(*dataPath)}, *dataPath, *orderPath); err != nil {
 		return err
 	}
 	if !s.quiet {

@@ -17,7 +17,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"os/signal"
 )
 
 // usageError marks errors in how the command was called (exit status 2).
@@ -38,9 +37,10 @@ var commands = []command{
 }
 
 func main() {
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
-	defer stop()
-	os.Exit(run(ctx, os.Args[1:], os.Stdout, os.Stderr))
+	ctx, stop := interruptContext()
+	code := run(ctx, os.Args[1:], os.Stdout, os.Stderr)
+	stop()
+	os.Exit(code)
 }
 
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -60,6 +60,10 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 				return 0
 			case errors.Is(err, flag.ErrHelp):
 				return 0
+			}
+			if i, ok := interrupted(ctx); ok {
+				fmt.Fprintf(stderr, "antecedent %s: %v; stopped, no partly written file left\n", c.name, i)
+				return i.status()
 			}
 			fmt.Fprintln(stderr, "antecedent "+c.name+": "+oneLine(err.Error()))
 			var ue usageError

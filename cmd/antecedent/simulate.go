@@ -5,9 +5,9 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"os"
 	"strconv"
 
+	"github.com/antecedent-lab/antecedent/internal/atomicfile"
 	"github.com/antecedent-lab/antecedent/simulate"
 )
 
@@ -39,7 +39,7 @@ func runSimulate(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	if err := writeFile(*dataPath, func(w *bufio.Writer) error {
+	if err := writeFile(ctx, *dataPath, func(w *bufio.Writer) error {
 		for j, n := range s.Names {
 			if j > 0 {
 				w.WriteByte(',')
@@ -60,14 +60,14 @@ func runSimulate(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	}); err != nil {
 		return err
 	}
-	if err := writeFile(*orderPath, func(w *bufio.Writer) error { return o.WriteText(w) }); err != nil {
+	if err := writeFile(ctx, *orderPath, func(w *bufio.Writer) error { return o.WriteText(w) }); err != nil {
 		return err
 	}
 	g, err := m.Graph()
 	if err != nil {
 		return err
 	}
-	if err := writeFile(*truthPath, func(w *bufio.Writer) error {
+	if err := writeFile(ctx, *truthPath, func(w *bufio.Writer) error {
 		fmt.Fprintln(w, "from,to,weight")
 		for _, e := range g.Edges() {
 			fmt.Fprintf(w, "%s,%s,%g\n", e.From, e.To, e.Coefficient)
@@ -80,19 +80,13 @@ func runSimulate(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	return nil
 }
 
-func writeFile(path string, fill func(*bufio.Writer) error) error {
-	f, err := os.Create(path)
-	if err != nil {
-		return err
-	}
-	w := bufio.NewWriter(f)
-	if err := fill(w); err != nil {
-		f.Close()
-		return err
-	}
-	if err := w.Flush(); err != nil {
-		f.Close()
-		return err
-	}
-	return f.Close()
+// writeFile writes a file whole beside path and renames it into place.
+func writeFile(ctx context.Context, path string, fill func(*bufio.Writer) error) error {
+	return atomicfile.Write(ctx, path, 0o644, func(w io.Writer) error {
+		bw := bufio.NewWriter(w)
+		if err := fill(bw); err != nil {
+			return err
+		}
+		return bw.Flush()
+	})
 }

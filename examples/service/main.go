@@ -1,114 +1,102 @@
 // Command service shows antecedent embedded in an analytics service: an
 // HTTP handler takes a CSV upload and an order, runs Discover under the
-// request's context with limits on size and time, and returns the result
-// as JSON.
+// request's context and returns the result as JSON. It holds under load:
+//
+//   - at most MaxRunning discoveries run and MaxWaiting more wait; beyond
+//     that a request is refused at once with 503 and a Retry-After header;
+//   - before any work, the cost of a request is estimated from its rows ×
+//     columns (Estimate), and one that would not fit the memory or time
+//     allowed is refused with 413 and the estimate;
+//   - a client that goes away cancels its discovery (the request's context);
+//   - slow clients are cut off by read-header and read timeouts;
+//   - Shutdown lets running discoveries finish until its deadline, then
+//     cancels them and waits for their handlers to answer.
+//
+// Usage:
 //
 //	go run ./examples/service -addr 127.0.0.1:8080
 //	curl -F data=@study.csv -F order=@study.order http://127.0.0.1:8080/discover
+//
+// Results are hypotheses from observational data, not findings; see the
+// README's cautions.
 package main
 
 import (
 	"context"
 	"encoding/json"
-	"errors"
 	"flag"
-	"fmt"
-	"io"
 	"log"
+	"net"
 	"net/http"
-	"strings"
+	"os"
+	"os/signal"
+	"syscall"
 	"time"
-
-	"github.com/antecedent-lab/antecedent"
-	"github.com/antecedent-lab/antecedent/order"
-	"github.com/antecedent-lab/antecedent/table"
 )
 
-// Limits bound what one request may ask of the service.
-type Limits struct {
-	MaxBytes int64         // request body
-	MaxTime  time.Duration // wall time of one discovery
-	MaxRows  int
-	Workers  int
-}
+// answerTime bounds the writing of one answer, against a client that
+// stops reading.
+const answerTime = 30 * time.Second
 
-// Handler returns the /discover handler.
-func Handler(lim Limits) http.Handler {
-	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		if r.Method != http.MethodPost {
-			httpError(w, http.StatusMethodNotAllowed, "use POST with form fields data (CSV) and order")
-			return
-		}
-		r.Body = http.MaxBytesReader(w, r.Body, lim.MaxBytes)
-		if err := r.ParseMultipartForm(lim.MaxBytes); err != nil {
-			var tooBig *http.MaxBytesError
-			if errors.As(err, &tooBig) {
-				httpError(w, http.StatusRequestEntityTooLarge, fmt.Sprintf("request larger than %d bytes", lim.MaxBytes))
-				return
-			}
-			httpError(w, http.StatusBadRequest, "expected a multipart form: "+err.Error())
-			return
-		}
-		dataFile, _, err := r.FormFile("data")
-		if err != nil {
-			httpError(w, http.StatusBadRequest, "missing form file \"data\"")
-			return
-		}
-		defer dataFile.Close()
-		d, err := table.ReadCSV(dataFile, &table.CSVOptions{MaxRows: lim.MaxRows})
-		if err != nil {
-			httpError(w, http.StatusUnprocessableEntity, err.Error())
-			return
-		}
-		var orderText string
-		if f, _, err := r.FormFile("order"); err == nil {
-			b, err := io.ReadAll(f)
-			f.Close()
-			if err != nil {
-				httpError(w, http.StatusBadRequest, err.Error())
-				return
-			}
-			orderText = string(b)
-		} else {
-			orderText = r.FormValue("order")
-		}
-		o, err := order.Parse(strings.NewReader(orderText))
-		if err != nil {
-			httpError(w, http.StatusUnprocessableEntity, err.Error())
-			return
-		}
-		ctx, cancel := context.WithTimeout(r.Context(), lim.MaxTime)
-		defer cancel()
-		res, err := antecedent.DiscoverContext(ctx, d, o, &antecedent.Config{Workers: lim.Workers})
-		switch {
-		case errors.Is(err, context.DeadlineExceeded):
-			httpError(w, http.StatusServiceUnavailable, fmt.Sprintf("discovery took longer than %v", lim.MaxTime))
-			return
-		case errors.Is(err, context.Canceled):
-			return // the client went away
-		case err != nil:
-			httpError(w, http.StatusUnprocessableEntity, err.Error())
-			return
-		}
-		w.Header().Set("Content-Type", "application/json")
-		if err := res.WriteJSON(w); err != nil {
-			log.Printf("writing response: %v", err)
-		}
-	})
-}
-
-func httpError(w http.ResponseWriter, code int, msg string) {
-	w.Header().Set("Content-Type", "application/json")
-	w.WriteHeader(code)
-	json.NewEncoder(w).Encode(map[string]string{"error": msg})
+// writeDeadline gives the answer answerTime from now to be written.
+func writeDeadline(w http.ResponseWriter) {
+	http.NewResponseController(w).SetWriteDeadline(time.Now().Add(answerTime))
 }
 
 func main() {
 	addr := flag.String("addr", "127.0.0.1:8080", "listen address")
+	grace := flag.Duration("grace", 30*time.Second, "on SIGINT or SIGTERM, time running discoveries get to finish")
 	flag.Parse()
+	svc := New(Limits{MaxBytes: 32 << 20, MaxTime: 2 * time.Minute, MaxRows: 200_000, Workers: 2,
+		MaxRunning: 2, MaxWaiting: 8, MaxMemory: 2 << 30})
 	mux := http.NewServeMux()
-	mux.Handle("/discover", Handler(Limits{MaxBytes: 32 << 20, MaxTime: 2 * time.Minute, MaxRows: 200_000, Workers: 2}))
-	srv := &http.Server{Addr: *addr, Handler: mux, ReadHeaderTimeout: 10 * time.Second}
-	log.Printf("listening on %s", *addr)
-	log.Fatal(srv.ListenAndServe())
+	mux.Handle("/discover", svc)
+	srv := NewServer(mux, svc.Limits())
+	ln, err := net.Listen("tcp", *addr)
+	if err != nil {
+		log.Fatal(err)
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	go func() {
+		<-ctx.Done()
+		stop()
+		sctx, cancel := context.WithTimeout(context.Background(), *grace)
+		defer cancel()
+		if err := svc.Shutdown(sctx, srv); err != nil {
+			log.Printf("shutdown: %v (running discoveries were cancelled)", err)
+		}
+	}()
+	log.Printf("listening on %s", ln.Addr())
+	if err := srv.Serve(ln); err != http.ErrServerClosed {
+		log.Fatal(err)
+	}
+	svc.Wait()
+}
+
+// NewServer returns an http.Server for h with the timeouts of lim: slow
+// clients cannot hold a connection by trickling headers or a body, and a
+// keep-alive connection idle for a minute is closed. There is no server-wide write
+// timeout, since a request may wait its turn and then run for MaxTime; the
+// Service sets a write deadline on each answer instead.
+func NewServer(h http.Handler, lim Limits) *http.Server {
+	lim = lim.withDefaults()
+	return &http.Server{
+		Handler:           h,
+		ReadHeaderTimeout: lim.ReadHeaderTimeout,
+		ReadTimeout:       lim.ReadTimeout,
+		IdleTimeout:       time.Minute,
+		MaxHeaderBytes:    64 << 10,
+	}
+}
+
+func httpError(w http.ResponseWriter, code int, msg string) {
+	writeJSON(w, code, map[string]string{"error": msg})
+}
+
+func writeJSON(w http.ResponseWriter, code int, v any) {
+	writeDeadline(w)
+	w.Header().Set("Content-Type", "application/json")
+	w.WriteHeader(code)
+	json.NewEncoder(w).Encode(v)
 }

@@ -16,6 +16,12 @@ import (
 
 func upload(t *testing.T, data, ord []byte) (*bytes.Buffer, string) {
 	t.Helper()
+	return uploadBody(data, ord)
+}
+
+// uploadBody returns a multipart form with the files data (when not nil)
+// and order, and its content type.
+func uploadBody(data, ord []byte) (*bytes.Buffer, string) {
 	var body bytes.Buffer
 	mw := multipart.NewWriter(&body)
 	if data != nil {
@@ -38,13 +44,15 @@ func demoFiles(t *testing.T) ([]byte, []byte) {
 		t.Fatal(err)
 	}
 	// The first 800 rows keep the test quick.
-	lines := strings.SplitAfterN(string(data), "\n", 802)
-	return []byte(strings.Join(lines[:801], "")), ord
+	return rowsOf(data, 800), ord
 }
+
+// demoFull returns the whole demo data.
+func demoFull() ([]byte, error) { return demo.File("joint_replacement.csv") }
 
 func TestDiscoverEndpoint(t *testing.T) {
 	data, ord := demoFiles(t)
-	srv := httptest.NewServer(Handler(Limits{MaxBytes: 8 << 20, MaxTime: time.Minute, Workers: 2}))
+	srv := httptest.NewServer(New(Limits{MaxBytes: 8 << 20, MaxTime: time.Minute, Workers: 2}))
 	defer srv.Close()
 	body, ctype := upload(t, data, ord)
 	resp, err := http.Post(srv.URL, ctype, body)
@@ -75,7 +83,9 @@ func TestLimits(t *testing.T) {
 		msg  string
 	}{
 		{"too large", Limits{MaxBytes: 1000, MaxTime: time.Minute}, data, ord, http.StatusRequestEntityTooLarge, "larger than"},
-		{"too slow", Limits{MaxBytes: 8 << 20, MaxTime: time.Millisecond}, data, ord, http.StatusServiceUnavailable, "longer than"},
+		{"too slow", Limits{MaxBytes: 8 << 20, MaxTime: time.Millisecond, MaxEstimate: time.Hour}, data, ord, http.StatusServiceUnavailable, "longer than"},
+		{"estimated too slow", Limits{MaxBytes: 8 << 20, MaxTime: 10 * time.Millisecond}, data, ord, http.StatusRequestEntityTooLarge, "800 rows × 18 columns would need"},
+		{"estimated too large", Limits{MaxBytes: 8 << 20, MaxTime: time.Minute, MaxMemory: 1 << 20}, data, ord, http.StatusRequestEntityTooLarge, "this service allows 1 MiB"},
 		{"bad order", Limits{MaxBytes: 8 << 20, MaxTime: time.Minute}, data, []byte("tier: nobody\n"), http.StatusUnprocessableEntity, "unknown names"},
 		{"bad csv", Limits{MaxBytes: 8 << 20, MaxTime: time.Minute}, []byte("a,b\n1\n"), ord, http.StatusUnprocessableEntity, "line 2"},
 		{"no data", Limits{MaxBytes: 8 << 20, MaxTime: time.Minute}, nil, ord, http.StatusBadRequest, "data"},
@@ -85,7 +95,7 @@ func TestLimits(t *testing.T) {
 		req := httptest.NewRequest(http.MethodPost, "/discover", body)
 		req.Header.Set("Content-Type", ctype)
 		rec := httptest.NewRecorder()
-		Handler(c.lim).ServeHTTP(rec, req)
+		New(c.lim).ServeHTTP(rec, req)
 		var msg map[string]string
 		json.Unmarshal(rec.Body.Bytes(), &msg)
 		if rec.Code != c.code || !strings.Contains(msg["error"], c.msg) {
