@@ -45,7 +45,7 @@ type Config struct {
 	// is not used (nodes are fitted in parallel, see Workers).
 	CV cv.Settings `json:"cv"`
 	// Selection is how parents are chosen from each node's path; zero
-	// means PenalisedLasso.
+	// means AdaptiveLasso. PenalisedLasso is the textbook procedure.
 	Selection Selection `json:"selection"`
 	// Families gives, by variable name, the loss of a variable fitted as a
 	// response in place of the one its kind implies (Gaussian for
@@ -97,7 +97,7 @@ func (c *Config) resolve() (Config, error) {
 	if r.CV.Path.Family != nil || r.CV.Path.PenaltyScale != nil {
 		return r, &ConfigError{"CV.Path", "", "Family and PenaltyScale are set per node; use Config.Families and required edges"}
 	}
-	if r.Selection < PenalisedLasso || r.Selection > RelaxedLasso {
+	if r.Selection < AdaptiveLasso || r.Selection > RelaxedLasso {
 		return r, &ConfigError{"Selection", fmt.Sprint(int(r.Selection)), "unknown selection"}
 	}
 	if r.Workers < 0 {

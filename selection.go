@@ -14,16 +14,18 @@ import (
 type Selection int
 
 const (
-	// PenalisedLasso keeps the predictors that are non-zero in the lasso
-	// fit at the penalty chosen by Config.CV.Rule.
-	PenalisedLasso Selection = iota
-	// AdaptiveLasso (Zou 2006, JASA 101:1418–1429) fits a second
-	// cross-validated lasso on the predictors that are non-zero at the
-	// first path's minimum-loss penalty, each penalised in inverse
-	// proportion to the size of its first-stage coefficient per standard
-	// deviation, and keeps its non-zero predictors at the penalty chosen
-	// by Config.CV.Rule.
-	AdaptiveLasso
+	// AdaptiveLasso, the default, is the adaptive lasso (Zou 2006, JASA
+	// 101:1418–1429): a second cross-validated lasso on the predictors
+	// that are non-zero at the first path's minimum-loss penalty, each
+	// penalised in inverse proportion to the size of its first-stage
+	// coefficient per standard deviation; the non-zero predictors at the
+	// penalty chosen by Config.CV.Rule are the parents. On the validity
+	// harness (bench/validity) it reports far fewer false parents than the
+	// plain lasso at the same rule (see the README's defaults section).
+	AdaptiveLasso Selection = iota
+	// PenalisedLasso is the textbook procedure: the predictors that are
+	// non-zero in the lasso fit at the penalty chosen by Config.CV.Rule.
+	PenalisedLasso
 	// RelaxedLasso (Meinshausen 2007, CSDA 52:374–393, with the
 	// relaxation fully relaxed) takes each distinct set of predictors met
 	// along the first path down to its minimum-loss penalty, refits it
@@ -33,7 +35,7 @@ const (
 	RelaxedLasso
 )
 
-var selectionNames = []string{"lasso", "adaptive", "relaxed"}
+var selectionNames = []string{"adaptive", "lasso", "relaxed"}
 
 // String returns the selection's name.
 func (s Selection) String() string {
@@ -50,7 +52,7 @@ func (s Selection) MarshalText() ([]byte, error) { return []byte(s.String()), ni
 func (s *Selection) UnmarshalText(b []byte) error {
 	i := slices.Index(selectionNames, string(b))
 	if i < 0 {
-		return fmt.Errorf("antecedent: unknown selection %q (want lasso, adaptive or relaxed)", b)
+		return fmt.Errorf("antecedent: unknown selection %q (want adaptive, lasso or relaxed)", b)
 	}
 	*s = Selection(i)
 	return nil
