@@ -13,44 +13,37 @@ import (
 
 // read runs ReadCSV: the header, the blocks, then each column's kind.
 func (rd *reader) read(r io.Reader) (*Dataset, error) {
-	data, err := readAll(r)
-	if err != nil {
-		return nil, err
+	src := &source{r: r, size: sizeOf(r)}
+	buf := src.fill(make([]byte, 0, blockSize), blockSize)
+	for !src.eof && safeCut(buf) < 0 {
+		if len(buf) > rd.maxLine+blockSize {
+			return nil, &CSVError{Line: 1, Err: badCSV("line longer than %d bytes", rd.maxLine)}
+		}
+		buf = src.fill(buf, 2*len(buf))
+	}
+	if src.err != nil {
+		return nil, src.err
 	}
 	pos, line := 0, 1
-	for pos < len(data) && blank(data, pos) > 0 {
-		pos += blank(data, pos)
+	for pos < len(buf) && blank(buf, pos) > 0 {
+		pos += blank(buf, pos)
 		line++
 	}
-	if pos == len(data) {
+	if pos == len(buf) {
 		return nil, &CSVError{Line: 1, Err: badCSV("empty file, expected a header row")}
 	}
 	p := &parser{rd: rd}
-	fields, next, nextLine, err := p.nextRecord(data, pos, line)
+	fields, next, nextLine, err := p.nextRecord(buf, pos, line)
 	if err != nil {
 		return nil, err
 	}
-	if err := rd.header(fields, data[pos:next]); err != nil {
+	if err := rd.header(fields, buf[pos:next]); err != nil {
 		return nil, err
 	}
-	blocks, bound := cut(data[next:], nextLine)
-	if rd.o.MaxRows > 0 && bound > rd.o.MaxRows {
-		// Parse only the blocks that can hold the first MaxRows+1 rows.
-		n := 0
-		for k, b := range blocks {
-			n += b.bound
-			if n > rd.o.MaxRows {
-				blocks = blocks[:k+1]
-				bound = n
-				break
-			}
-		}
+	blocks, cols, err := rd.stream(src, buf[next:], nextLine, int64(len(buf)))
+	if err != nil {
+		return nil, err
 	}
-	cols := make([][]float64, len(rd.names))
-	for j := range cols {
-		cols[j] = make([]float64, bound)
-	}
-	rd.parse(blocks, cols)
 	rows := 0
 	for _, b := range blocks {
 		if b.err != nil {
@@ -64,15 +57,19 @@ func (rd *reader) read(r io.Reader) (*Dataset, error) {
 	if rows == 0 {
 		return nil, &CSVError{Line: nextLine, Err: badCSV("header only, no data rows")}
 	}
-	if rows < bound {
-		// Blank lines or quoted line breaks: close the gaps.
-		for j, c := range cols {
+	gaps := false
+	for _, b := range blocks {
+		gaps = gaps || b.rows < b.bound
+	}
+	for j, c := range cols {
+		if gaps {
+			// Blank lines or quoted line breaks: close the gaps.
 			at := 0
 			for _, b := range blocks {
 				at += copy(c[at:], c[b.off:b.off+b.rows])
 			}
-			cols[j] = c[:rows:rows]
 		}
+		cols[j] = c[:rows:rows]
 	}
 	d := &Dataset{rows: rows, lines: make([]int, 0, rows)}
 	for _, b := range blocks {

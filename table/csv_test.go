@@ -3,7 +3,9 @@ package table_test
 import (
 	"errors"
 	"fmt"
+	"io"
 	"math"
+	"os"
 	"slices"
 	"strings"
 	"testing"
@@ -360,8 +362,8 @@ func TestReadCSVMissingLines(t *testing.T) {
 }
 
 // TestReadCSVBlocks checks that a file cut into many blocks, with quoted
-// line breaks near the cuts, reads the same for 1 and 4 workers and as
-// the values written.
+// line breaks near the cuts, reads the same for 1, 2 and 4 workers,
+// whether its length is known or not, and as the values written.
 func TestReadCSVBlocks(t *testing.T) {
 	if testing.Short() {
 		t.Skip("writes a 10 MB file")
@@ -378,8 +380,12 @@ func TestReadCSVBlocks(t *testing.T) {
 	}
 	in := b.String()
 	var first *table.Dataset
-	for _, w := range []int{1, 4} {
-		d, err := table.ReadCSV(strings.NewReader(in), &table.CSVOptions{Workers: w, AsIs: []string{"note"}})
+	for _, w := range []int{1, 4, 2} {
+		var r io.Reader = strings.NewReader(in)
+		if w == 2 {
+			r = struct{ io.Reader }{r} // length unknown: the columns grow
+		}
+		d, err := table.ReadCSV(r, &table.CSVOptions{Workers: w, AsIs: []string{"note"}})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -436,5 +442,29 @@ func BenchmarkReadCSV20kP50(b *testing.B) {
 		if _, err := table.ReadCSV(strings.NewReader(in), nil); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// BenchmarkReadCSVFile reads the file named by ANTECEDENT_BENCH_CSV (for
+// example one written by "antecedent simulate"); it is skipped without it.
+func BenchmarkReadCSVFile(b *testing.B) {
+	path := os.Getenv("ANTECEDENT_BENCH_CSV")
+	if path == "" {
+		b.Skip("set ANTECEDENT_BENCH_CSV to a CSV file")
+	}
+	st, err := os.Stat(path)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.SetBytes(st.Size())
+	for range b.N {
+		f, err := os.Open(path)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := table.ReadCSV(f, nil); err != nil {
+			b.Fatal(err)
+		}
+		f.Close()
 	}
 }

@@ -12,10 +12,10 @@ var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 
 // scanNumber parses the longest prefix of b of the form
 // [+-]digits[point digits][(e|E)[+-]digits] and returns its value and
-// length. ok is false when the prefix is empty or its value cannot be
-// formed exactly here (more than 19 significant digits, or a decimal
-// exponent outside ±22 with a mantissa of more than 53 bits); the caller
-// then falls back to strconv.ParseFloat.
+// length. ok is false when the prefix has no digit or its value cannot be
+// formed exactly here (more than 19 digits, or a mantissa of 2⁵³ or more,
+// or a decimal exponent outside ±22); the caller then falls back to
+// strconv.ParseFloat.
 //
 // When ok is true the value is the one strconv.ParseFloat returns: the
 // mantissa is an integer below 2⁵³ and the power of ten is exact, so the
@@ -24,44 +24,37 @@ var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 func scanNumber(b []byte, point byte) (x float64, n int, ok bool) {
 	i := 0
 	neg := false
-	if i < len(b) && (b[i] == '+' || b[i] == '-') {
-		neg = b[i] == '-'
-		i++
+	if len(b) > 0 && (b[0] == '-' || b[0] == '+') {
+		neg = b[0] == '-'
+		i = 1
 	}
 	var mant uint64
-	digits, exp := 0, 0
-	sawDigit, sawPoint, trunc := false, false, false
-	for ; i < len(b); i++ {
-		c := b[i]
-		if c-'0' <= 9 {
-			sawDigit = true
-			if c == '0' && digits == 0 {
-				if sawPoint {
-					exp--
-				}
-				continue
-			}
-			if digits < 19 {
-				mant = mant*10 + uint64(c-'0')
-				digits++
-				if sawPoint {
-					exp--
-				}
-			} else {
-				trunc = true
-				if !sawPoint {
-					exp++
-				}
-			}
-			continue
+	start := i
+	for i < len(b) {
+		d := b[i] - '0'
+		if d > 9 {
+			break
 		}
-		if c == point && !sawPoint {
-			sawPoint = true
-			continue
-		}
-		break
+		mant = mant*10 + uint64(d)
+		i++
 	}
-	if !sawDigit {
+	digits := i - start
+	exp := 0
+	if i < len(b) && b[i] == point {
+		i++
+		from := i
+		for i < len(b) {
+			d := b[i] - '0'
+			if d > 9 {
+				break
+			}
+			mant = mant*10 + uint64(d)
+			i++
+		}
+		digits += i - from
+		exp = from - i
+	}
+	if digits == 0 {
 		return 0, i, false
 	}
 	if i < len(b) && b[i]|0x20 == 'e' {
@@ -71,13 +64,13 @@ func scanNumber(b []byte, point byte) (x float64, n int, ok bool) {
 			eneg = b[j] == '-'
 			j++
 		}
-		e, start := 0, j
+		e, from := 0, j
 		for ; j < len(b) && b[j]-'0' <= 9; j++ {
 			if e < 10000 {
 				e = e*10 + int(b[j]-'0')
 			}
 		}
-		if j == start {
+		if j == from {
 			return 0, j, false
 		}
 		if eneg {
@@ -86,7 +79,7 @@ func scanNumber(b []byte, point byte) (x float64, n int, ok bool) {
 		exp += e
 		i = j
 	}
-	if trunc {
+	if digits > 19 {
 		return 0, i, false
 	}
 	if mant == 0 {

@@ -2,10 +2,7 @@ package table
 
 import (
 	"bytes"
-	"io"
-	"io/fs"
 	"math"
-	"sync"
 )
 
 // blockSize is the size of the blocks a file is cut into for parsing.
@@ -252,7 +249,7 @@ func (p *parser) fastRow(b *block, cols [][]float64, row int, data []byte, pos, 
 			if j < ncol {
 				var err error
 				if x, err = p.cell(b, j, row-b.off, f, line); err != nil {
-					return 0, p.rowError(data, start, j, line, len(cols), err)
+					return 0, p.rowError(data, start, j, line, ncol, err)
 				}
 			}
 		} else if e < len(data) && data[e] == '\r' {
@@ -392,102 +389,6 @@ func safeCut(buf []byte) int {
 		}
 		in = !in
 		pos = end + 1
-	}
-}
-
-// cut splits data, whose first byte is on file line line and outside any
-// quoted field, into blocks of about blockSize bytes that end at line
-// breaks outside quoted fields, and sets each block's line, offset and
-// bound on its rows. It returns the blocks and the total bound.
-func cut(data []byte, line int) ([]*block, int) {
-	quotes := bytes.IndexByte(data, '"') >= 0
-	var blocks []*block
-	total := 0
-	for pos := 0; pos < len(data); {
-		end := len(data)
-		if pos+blockSize < len(data) {
-			if !quotes {
-				if i := bytes.IndexByte(data[pos+blockSize:], '\n'); i >= 0 {
-					end = pos + blockSize + i + 1
-				}
-			} else {
-				for w := blockSize; pos+w < len(data); w *= 2 {
-					if i := safeCut(data[pos : pos+w]); i >= 0 {
-						end = pos + i + 1
-						break
-					}
-				}
-			}
-		}
-		b := &block{data: data[pos:end], line: line, off: total}
-		breaks := bytes.Count(b.data, []byte{'\n'})
-		b.bound = breaks
-		if end == len(data) && data[end-1] != '\n' {
-			b.bound++
-		}
-		total += b.bound
-		line += breaks
-		blocks = append(blocks, b)
-		pos = end
-	}
-	return blocks, total
-}
-
-// parse parses the blocks on the reader's workers into cols.
-func (rd *reader) parse(blocks []*block, cols [][]float64) {
-	workers := min(rd.workers, len(blocks))
-	if workers <= 1 {
-		p := &parser{rd: rd}
-		for _, b := range blocks {
-			p.parseBlock(b, cols)
-			if b.err != nil {
-				return
-			}
-		}
-		return
-	}
-	var wg sync.WaitGroup
-	next := make(chan *block)
-	for range workers {
-		wg.Go(func() {
-			p := &parser{rd: rd}
-			for b := range next {
-				p.parseBlock(b, cols)
-			}
-		})
-	}
-	for _, b := range blocks {
-		next <- b
-	}
-	close(next)
-	wg.Wait()
-}
-
-// readAll reads r whole, using its size when it tells it (a file, or a
-// reader of bytes or strings).
-func readAll(r io.Reader) ([]byte, error) {
-	size := 64 << 10
-	switch s := r.(type) {
-	case interface{ Len() int }:
-		size = s.Len() + 1
-	case interface{ Stat() (fs.FileInfo, error) }:
-		if fi, err := s.Stat(); err == nil && fi.Mode().IsRegular() && fi.Size() > 0 && fi.Size() < 1<<40 {
-			size = int(fi.Size()) + 1
-		}
-	}
-	buf := make([]byte, 0, size)
-	for {
-		if len(buf) == cap(buf) {
-			buf = append(buf, 0)[:len(buf)]
-		}
-		n, err := r.Read(buf[len(buf):cap(buf)])
-		buf = buf[:len(buf)+n]
-		if err == io.EOF {
-			return buf, nil
-		}
-		if err != nil {
-			return nil, err
-		}
 	}
 }
 
