@@ -95,7 +95,7 @@ func (rd *reader) stream(src *source, head []byte, line int, read int64) ([]*blo
 	var cols [][]float64
 	off := 0
 	hdr := read - int64(len(head)) // bytes of the header
-	var done int64                  // bytes of the blocks cut so far
+	var done int64                 // bytes of the blocks cut so far
 	buf := head
 	want := blockSize
 	for !stop.Load() {
