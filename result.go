@@ -1,6 +1,8 @@
 package antecedent
 
 import (
+	"bufio"
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -245,11 +247,44 @@ func (r *Result) WriteGraphML(w io.Writer) error {
 	return g.GraphMLNodes(w, nodes)
 }
 
-// WriteJSON writes the result as indented JSON.
+// WriteJSON writes the result as indented JSON, the same bytes as
+// json.MarshalIndent(r, "", "  ") and a line break. Nodes, the bulk of a
+// large result, are encoded and written one at a time, so memory holds one
+// node's text at a time, not the document's.
 func (r *Result) WriteJSON(w io.Writer) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(r)
+	rest := *r
+	rest.Nodes = nil
+	head, err := json.MarshalIndent(&rest, "", "  ")
+	if err != nil {
+		return err
+	}
+	// "nodes" is the first field: split the document at its null.
+	const slot = "{\n  \"nodes\": null"
+	if !bytes.HasPrefix(head, []byte(slot)) {
+		return fmt.Errorf("antecedent: internal error: result JSON starts %q", head[:min(len(head), 40)])
+	}
+	bw := bufio.NewWriterSize(w, 64<<10)
+	if r.Nodes == nil {
+		bw.WriteString("{\n  \"nodes\": null")
+	} else if len(r.Nodes) == 0 {
+		bw.WriteString("{\n  \"nodes\": []")
+	} else {
+		bw.WriteString("{\n  \"nodes\": [\n    ")
+		for i := range r.Nodes {
+			b, err := json.MarshalIndent(&r.Nodes[i], "    ", "  ")
+			if err != nil {
+				return err
+			}
+			if i > 0 {
+				bw.WriteString(",\n    ")
+			}
+			bw.Write(b)
+		}
+		bw.WriteString("\n  ]")
+	}
+	bw.Write(head[len(slot):])
+	bw.WriteByte('\n')
+	return bw.Flush()
 }
 
 // ReadResult reads a result written by WriteJSON (or json.Marshal).

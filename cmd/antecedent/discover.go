@@ -1,7 +1,7 @@
 package main
 
 import (
-	"bytes"
+	"bufio"
 	"context"
 	"errors"
 	"flag"
@@ -126,15 +126,32 @@ func (s *settings) outputs(res *antecedent.Result, ropts *report.Options, inputs
 				return usageError{fmt.Sprintf("refusing to write %s over the input file %s", o.path, in)}
 			}
 		}
-		var buf bytes.Buffer
-		if err := o.write(&buf); err != nil {
-			return err
-		}
-		if err := os.WriteFile(o.path, buf.Bytes(), 0o644); err != nil {
+		if err := writeOutput(o.path, o.write); err != nil {
 			return err
 		}
 	}
 	return nil
+}
+
+// writeOutput writes a file through write, streaming, and removes it when
+// writing fails, so that no partial output is left behind.
+func writeOutput(path string, write func(io.Writer) error) error {
+	f, err := os.Create(path)
+	if err != nil {
+		return err
+	}
+	bw := bufio.NewWriterSize(f, 256<<10)
+	err = write(bw)
+	if err == nil {
+		err = bw.Flush()
+	}
+	if cerr := f.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		os.Remove(path)
+	}
+	return err
 }
 
 func samePath(a, b string) bool {
