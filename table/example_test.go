@@ -67,3 +67,25 @@ func ExampleDataset_Usable() {
 	// Output:
 	// [0 3] [0 2 3] true
 }
+
+// ExampleDataset_SetReference measures a three-level variable's effects
+// against a chosen level instead of the default (the most common one).
+func ExampleDataset_SetReference() {
+	d := &table.Dataset{}
+	if err := d.AddText("stage", []string{"early", "late", "early", "middle", "early"}, 0); err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(d.Variables()[0].Coding())
+	if err := d.SetReference("stage", "late"); err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(d.Variables()[0].Coding())
+	for _, c := range d.Terms(0) {
+		fmt.Println(d.TermName(c), d.Contrast(c), d.Columns()[c])
+	}
+	// Output:
+	// "late", "middle" each vs "early" (reference)
+	// "early", "middle" each vs "late" (reference)
+	// stage=early "early" vs "late" [1 0 1 0 1]
+	// stage=middle "middle" vs "late" [0 0 0 1 0]
+}
