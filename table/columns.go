@@ -162,12 +162,17 @@ func (rd *reader) column(d *Dataset, blocks []*block, col []float64, j int) erro
 		}
 		return fail(first.line, badData("%s", msg), append(codeFixes(s.firstOdd, true), Fix{"AsIs", name, "to read the column as continuous"})...)
 	case !text:
-		if err := d.addNumeric(name, col); err != nil {
-			return fail(1, unprefix(err))
+		// The parser refuses infinite values, and stats has counted the
+		// values other than 0 and 1: no second pass over the column.
+		v := Variable{Name: name, Kind: Continuous}
+		switch {
+		case s.nOdd > 0:
+		case s.nBool > 0 && s.nBool == s.nNum:
+			v.Kind, v.Levels = Binary, []string{"false", "true"}
+		default:
+			v.Kind, v.Levels = Binary, []string{"0", "1"}
 		}
-		if v := &d.vars[len(d.vars)-1]; v.Kind == Binary && s.nBool == s.nNum {
-			v.Levels = []string{"false", "true"}
-		}
+		d.addVariable(v, [][]float64{col})
 		return rd.coding(d, j, fail)
 	}
 	values := make([]string, 0, d.rows)
