@@ -11,16 +11,38 @@ import (
 	"strconv"
 	"strings"
 
+	"gonum.org/v1/gonum/graph/encoding"
 	"gonum.org/v1/gonum/graph/encoding/dot"
 
 	"github.com/antecedent-lab/antecedent/internal/jsonfloat"
 )
 
 // DOT returns the graph in Graphviz's DOT language, through gonum's
-// encoding/dot. Edge labels carry the standardised effect, negative
-// effects are dashed, and pen width grows with selection frequency.
+// encoding/dot. Edge labels carry the standardised effect, whose meaning
+// the graph's label states, negative effects are dashed, and pen width
+// grows with selection frequency.
 func (g *Graph) DOT(name string) ([]byte, error) {
 	return dot.Marshal(g, name, "", "  ")
+}
+
+// attrs is a fixed list of DOT attributes.
+type attrs []encoding.Attribute
+
+// Attributes implements encoding.Attributer.
+func (a attrs) Attributes() []encoding.Attribute { return a }
+
+// DOTAttributers gives gonum's DOT encoder the graph's label: what the
+// numbers on the edges measure, when any edge carries one.
+func (g *Graph) DOTAttributers() (graph, node, edge encoding.Attributer) {
+	var ga attrs
+	for _, e := range g.edges {
+		if !math.IsNaN(e.Standardized) || !math.IsNaN(e.Coefficient) {
+			ga = attrs{{Key: "label", Value: `"Edge labels: ` + StandardizedMeaning + ` (coefficient on the variables' own scales where no standardised effect is known)."`},
+				{Key: "labelloc", Value: "b"}, {Key: "fontsize", Value: "10"}}
+			break
+		}
+	}
+	return ga, attrs(nil), attrs(nil)
 }
 
 // NodeData describes a node for GraphMLNodes: its variable's kind and,
