@@ -298,6 +298,21 @@ func listNames(names []string, max int) string {
 
 var separatorNames = map[byte]string{',': "commas", ';': "semicolons", '\t': "tabs", '|': "vertical bars"}
 
+// counted returns the plural noun plural, made singular for one.
+func counted(n int, plural string) string {
+	if n == 1 {
+		return strings.TrimSuffix(plural, "s")
+	}
+	return plural
+}
+
+func separatorName(c byte) string {
+	if n, ok := separatorNames[c]; ok {
+		return n
+	}
+	return fmt.Sprintf("%q characters", c)
+}
+
 // separatorHint returns an error when a one-field header holds another
 // common separator: the file is most likely separated by it.
 func (rd *reader) separatorHint(raw []byte) error {
@@ -314,7 +329,7 @@ func (rd *reader) separatorHint(raw []byte) error {
 		return nil
 	}
 	return &CSVError{Line: 1, Err: badCSV("the header has no %s but %d %s, so the file looks separated by %s",
-		separatorNames[rd.comma], n, separatorNames[best], separatorNames[best]),
+		separatorName(rd.comma), n, counted(n, separatorNames[best]), separatorNames[best]),
 		Fixes: []Fix{{Option: "Comma", Value: string(best)}}}
 }
 
