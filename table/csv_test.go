@@ -307,7 +307,7 @@ func TestReadCSVErrors(t *testing.T) {
 		{"unclosed quote", "a,b\n1,\"2\n", nil, "table: CSV line 2, column 2: a quoted field is not closed"},
 		{"bare quote", "a,b\n1,2\"\n", nil, "table: CSV line 2, column 2: a quote inside a field that does not start with one"},
 		{"text after a closing quote", "a,b\n1,\"2\"x\n", nil, "table: CSV line 2, column 2: extraneous or missing \" in a quoted field"},
-		{"one level", "a,b\n1,x\n2,x\n", nil, `table: CSV line 2, column 2 ("b"): text column "b" has 1 distinct values; it needs two or more`},
+		{"one level", "a,b\n1,x\n2,x\n", nil, `table: CSV line 2, column 2 ("b"): text column "b" has the single value "x"; it needs two or more`},
 		{"too many levels", "a,b\n1,p\n2,q\n3,r\n", &table.CSVOptions{MaxLevels: 2},
 			`table: CSV line 2, column 2 ("b"): column "b" has more than 2 distinct text values (an identifier or free text? leave it out of the table); correct the file, or raise CSVOptions.MaxLevels (if the column is a variable with that many levels)`},
 		{"field too long", "a,b\n1," + strings.Repeat("9", 100) + "\n", &table.CSVOptions{MaxFieldBytes: 50}, `table: CSV line 2, column 2 ("b"): field longer than 50 bytes`},

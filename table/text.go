@@ -33,8 +33,13 @@ func (d *Dataset) AddText(name string, values []string, maxLevels int) error {
 			}
 		}
 	}
-	if len(count) < 2 {
-		return fmt.Errorf("%w: text column %q has %d distinct values; it needs two or more", ErrData, name, len(count))
+	switch len(count) {
+	case 0:
+		return fmt.Errorf("%w: text column %q has no values; it needs two or more", ErrData, name)
+	case 1:
+		for only := range count {
+			return fmt.Errorf("%w: text column %q has the single value %q; it needs two or more", ErrData, name, only)
+		}
 	}
 	levels := orderLevels(count, DefaultReference(count))
 	if len(d.vars) == 0 && d.rows == 0 {
