@@ -31,6 +31,7 @@ func (r *run) assemble(o *order.Order, fits []nodeFit) (*Result, error) {
 	res.Warnings = append([]string{}, r.warnings...)
 	for v, f := range fits {
 		res.Nodes[v] = f.node
+		r.coding(&res.Nodes[v], v)
 		mb, _ := g.MarkovBlanket(f.node.Name)
 		if mb == nil {
 			mb = []string{}
@@ -50,6 +51,12 @@ func (r *run) assemble(o *order.Order, fits []nodeFit) (*Result, error) {
 		res.Stability.Explanation = res.Stability.explain()
 	}
 	return res, nil
+}
+
+// coding copies variable v's levels and coding into its node.
+func (r *run) coding(n *Node, v int) {
+	vr := r.vars[v]
+	n.Levels, n.Reference, n.Coding = slices.Clone(vr.Levels), vr.Reference(), vr.Coding()
 }
 
 // edge returns the edge from parent q into node f of variable v, carrying the refit

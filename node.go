@@ -357,14 +357,15 @@ func (r *run) effects(ctx context.Context, p *nodePlan, parents []int, warnings 
 			Estimate: Number(est), SE: Number(se),
 			Lower: Number(est - f.Quantile*se), Upper: Number(est + f.Quantile*se),
 			OddsRatio: nan(), OddsLower: nan(), OddsUpper: nan(),
-			Standardized: Number(est * f.SD[t]), NotEstimable: f.NotEstimable[t],
+			Contrast: r.d.Contrast(c), Standardized: Number(est * r.perSD(owner[t], f.SD[t])),
+			NotEstimable: f.NotEstimable[t],
 		}
 		if e.NotEstimable != "" {
 			*warnings = append(*warnings, fmt.Sprintf("effect of %s not estimable (%s)", e.Term, e.NotEstimable))
 		}
 		switch p.role {
 		case gaussian:
-			e.Standardized = Number(est * f.SD[t] / f.SD[k])
+			e.Standardized = Number(est * r.perSD(owner[t], f.SD[t]) / f.SD[k])
 		case binomial:
 			e.OddsRatio = Number(math.Exp(est))
 			e.OddsLower = Number(math.Exp(float64(e.Lower)))
@@ -373,6 +374,17 @@ func (r *run) effects(ctx context.Context, p *nodePlan, parents []int, warnings 
 		effects = append(effects, e)
 	}
 	return Number(f.Intercept), effects, nil
+}
+
+// perSD returns the factor that puts the effect of a term of variable v
+// with standard deviation sd on the standardised scale: sd for a
+// continuous variable, 1 for a binary or categorical one, whose effect is
+// the contrast itself (a 0/1 change has no meaningful standard deviation).
+func (r *run) perSD(v int, sd float64) float64 {
+	if r.vars[v].Kind == table.Continuous {
+		return sd
+	}
+	return 1
 }
 
 // sameTier returns the same-tier variables selected when node p is

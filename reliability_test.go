@@ -80,7 +80,7 @@ func badInputs() []badInput {
 		{name: "csv empty header", csv: "x,\n1,2\n", order: okOrder, wantErr: table.ErrCSV, mention: "column 2"},
 		{name: "csv byte-order mark", csv: "\ufeff" + csvOK, order: okOrder},
 		{name: "csv quoted newline in a name", csv: "\"x\",\"y\ny\"\n1,2\n3,4\n", order: "tier: x\ntier: \"y\ny\"\n", wantErr: order.ErrSyntax, mention: "line"},
-		{name: "csv non-numeric cell", csv: "x,y\n1,2\n2,abc\n3,4\n4,5\n", order: okOrder, wantErr: table.ErrData, mention: "categorical"},
+		{name: "csv non-numeric cell", csv: "x,y\n1,2\n2,abc\n3,4\n4,5\n", order: okOrder, wantErr: table.ErrData, mention: `"abc" is not a number`},
 		{name: "csv NaN cell", csv: strings.Replace(csvOK, "\n", "\nNaN,", 1)[:0] + "x,y\n1,NaN\n2,3\n", order: okOrder, wantErr: table.ErrMissing, mention: `"y" has 1`},
 		{name: "csv Inf cell", csv: "x,y\n1,Inf\n", order: okOrder, wantErr: table.ErrData, mention: "line 2"},
 		{name: "csv empty file", csv: "", order: okOrder, wantErr: table.ErrCSV, mention: "empty file"},

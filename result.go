@@ -1,6 +1,8 @@
 package antecedent
 
 import (
+	"bufio"
+	"bytes"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -65,6 +67,16 @@ type Node struct {
 	Name   string     `json:"name"`
 	Kind   table.Kind `json:"kind"`
 	Family string     `json:"family"`
+	// Levels holds a binary or categorical variable's values, the
+	// reference first: a binary variable is coded 0 for Levels[0] and 1
+	// for Levels[1] ("0" and "1" for a column of numbers); a categorical
+	// one enters as one indicator per later level.
+	Levels []string `json:"levels,omitempty"`
+	// Reference is the level the variable's effects are measured
+	// against (Levels[0]).
+	Reference string `json:"reference,omitempty"`
+	// Coding says the coding in words, for display.
+	Coding string `json:"coding,omitempty"`
 	// Tier is the node's tier, counted from 1 for the earliest.
 	Tier int `json:"tier"`
 	// TierLabel is the tier's label from the order, if any.
@@ -166,8 +178,18 @@ type Effect struct {
 	OddsRatio Number `json:"odds_ratio"`
 	OddsLower Number `json:"odds_lower"`
 	OddsUpper Number `json:"odds_upper"`
-	// Standardized is the effect per standard deviation of the parent
-	// term (and of the child, for a continuous child).
+	// Contrast says what Estimate compares, on the parent's natural
+	// scale: "per unit" of a continuous parent, `"yes" vs "no"` (or
+	// "1 vs 0") for a binary parent, `"north" vs "east"` for a level of a
+	// categorical parent against its reference. Estimate is in the
+	// child's units for a continuous child and in log odds of the child's
+	// level coded 1 for a binary child (OddsRatio is its exponential).
+	Contrast string `json:"contrast"`
+	// Standardized is the effect on a common scale (see
+	// dag.StandardizedMeaning): per standard deviation of a continuous
+	// parent, for the contrast itself of a binary or categorical parent;
+	// in standard deviations of a continuous child, in log odds for a
+	// binary child.
 	Standardized Number `json:"standardized"`
 	// NotEstimable says why the effect was not estimated (its numbers are
 	// then null): a level with too few rows, or a parent that separates a
@@ -244,11 +266,58 @@ func (r *Result) Node(name string) (*Node, error) {
 	return nil, fmt.Errorf("%w: %q", table.ErrVariable, name)
 }
 
-// WriteJSON writes the result as indented JSON.
+// WriteGraphML writes the graph as GraphML with each node's kind and
+// coding (see dag.Graph.GraphMLNodes).
+func (r *Result) WriteGraphML(w io.Writer) error {
+	g, err := r.Graph()
+	if err != nil {
+		return err
+	}
+	nodes := make(map[string]dag.NodeData, len(r.Nodes))
+	for _, n := range r.Nodes {
+		nodes[n.Name] = dag.NodeData{Kind: n.Kind.String(), Levels: n.Levels, Coding: n.Coding}
+	}
+	return g.GraphMLNodes(w, nodes)
+}
+
+// WriteJSON writes the result as indented JSON, the same bytes as
+// json.MarshalIndent(r, "", "  ") and a line break. Nodes, the bulk of a
+// large result, are encoded and written one at a time, so memory holds one
+// node's text at a time, not the document's.
 func (r *Result) WriteJSON(w io.Writer) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(r)
+	rest := *r
+	rest.Nodes = nil
+	head, err := json.MarshalIndent(&rest, "", "  ")
+	if err != nil {
+		return err
+	}
+	// "nodes" is the first field: split the document at its null.
+	const slot = "{\n  \"nodes\": null"
+	if !bytes.HasPrefix(head, []byte(slot)) {
+		return fmt.Errorf("antecedent: internal error: result JSON starts %q", head[:min(len(head), 40)])
+	}
+	bw := bufio.NewWriterSize(w, 64<<10)
+	if r.Nodes == nil {
+		bw.WriteString("{\n  \"nodes\": null")
+	} else if len(r.Nodes) == 0 {
+		bw.WriteString("{\n  \"nodes\": []")
+	} else {
+		bw.WriteString("{\n  \"nodes\": [\n    ")
+		for i := range r.Nodes {
+			b, err := json.MarshalIndent(&r.Nodes[i], "    ", "  ")
+			if err != nil {
+				return err
+			}
+			if i > 0 {
+				bw.WriteString(",\n    ")
+			}
+			bw.Write(b)
+		}
+		bw.WriteString("\n  ]")
+	}
+	bw.Write(head[len(slot):])
+	bw.WriteByte('\n')
+	return bw.Flush()
 }
 
 // ReadResult reads a result written by WriteJSON (or json.Marshal).

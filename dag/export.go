@@ -11,22 +11,59 @@ import (
 	"strconv"
 	"strings"
 
+	"gonum.org/v1/gonum/graph/encoding"
 	"gonum.org/v1/gonum/graph/encoding/dot"
 
 	"github.com/antecedent-lab/antecedent/internal/jsonfloat"
 )
 
 // DOT returns the graph in Graphviz's DOT language, through gonum's
-// encoding/dot. Edge labels carry the standardised effect, negative
-// effects are dashed, and pen width grows with selection frequency.
+// encoding/dot. Edge labels carry the standardised effect, whose meaning
+// the graph's label states, negative effects are dashed, and pen width
+// grows with selection frequency.
 func (g *Graph) DOT(name string) ([]byte, error) {
 	return dot.Marshal(g, name, "", "  ")
+}
+
+// attrs is a fixed list of DOT attributes.
+type attrs []encoding.Attribute
+
+// Attributes implements encoding.Attributer.
+func (a attrs) Attributes() []encoding.Attribute { return a }
+
+// DOTAttributers gives gonum's DOT encoder the graph's label: what the
+// numbers on the edges measure, when any edge carries one.
+func (g *Graph) DOTAttributers() (graph, node, edge encoding.Attributer) {
+	var ga attrs
+	for _, e := range g.edges {
+		if !math.IsNaN(e.Standardized) || !math.IsNaN(e.Coefficient) {
+			ga = attrs{{Key: "label", Value: `"Edge labels: ` + StandardizedMeaning + ` (coefficient on the variables' own scales where no standardised effect is known)."`},
+				{Key: "labelloc", Value: "b"}, {Key: "fontsize", Value: "10"}}
+			break
+		}
+	}
+	return ga, attrs(nil), attrs(nil)
+}
+
+// NodeData describes a node for GraphMLNodes: its variable's kind and,
+// for a binary or categorical variable, its levels (the reference first)
+// and its coding in words.
+type NodeData struct {
+	Kind   string
+	Levels []string
+	Coding string
 }
 
 // GraphML writes the graph as GraphML (the open XML standard for graphs),
 // with the edge attributes as typed data keys. Unknown attributes are
 // omitted from an edge.
-func (g *Graph) GraphML(w io.Writer) error {
+func (g *Graph) GraphML(w io.Writer) error { return g.GraphMLNodes(w, nil) }
+
+// GraphMLNodes writes the graph as GraphML like GraphML, and for each node
+// named in nodes its data: keys "kind", "levels" (a JSON array, the
+// reference first), "reference" and "coding". Each key carries a
+// description of its meaning.
+func (g *Graph) GraphMLNodes(w io.Writer, nodes map[string]NodeData) error {
 	type data struct {
 		Key   string `xml:"key,attr"`
 		Value string `xml:",chardata"`
@@ -46,6 +83,7 @@ func (g *Graph) GraphML(w io.Writer) error {
 		For  string `xml:"for,attr"`
 		Name string `xml:"attr.name,attr"`
 		Type string `xml:"attr.type,attr"`
+		Desc string `xml:"desc,omitempty"`
 	}
 	type graphEl struct {
 		ID          string `xml:"id,attr"`
@@ -62,19 +100,42 @@ func (g *Graph) GraphML(w io.Writer) error {
 	d := doc{
 		NS: "http://graphml.graphdrawing.org/xmlns",
 		Keys: []key{
-			{"name", "node", "name", "string"},
-			{"coefficient", "edge", "coefficient", "double"},
-			{"lower", "edge", "lower", "double"},
-			{"upper", "edge", "upper", "double"},
-			{"standardized", "edge", "standardized", "double"},
-			{"frequency", "edge", "frequency", "double"},
-			{"sign", "edge", "sign", "int"},
-			{"required", "edge", "required", "boolean"},
+			{"name", "node", "name", "string", ""},
+			{"coefficient", "edge", "coefficient", "double", "effect on the variables' own scales (log odds for a binary child); for a categorical parent, of its strongest level"},
+			{"lower", "edge", "lower", "double", "lower end of the coefficient's 95% interval"},
+			{"upper", "edge", "upper", "double", "upper end of the coefficient's 95% interval"},
+			{"standardized", "edge", "standardized", "double", StandardizedMeaning},
+			{"frequency", "edge", "frequency", "double", "share of subsamples that selected the edge"},
+			{"sign", "edge", "sign", "int", ""},
+			{"required", "edge", "required", "boolean", "edge forced by the order"},
 		},
 		Graph: graphEl{ID: "G", EdgeDefault: "directed"},
 	}
+	if nodes != nil {
+		d.Keys = append(d.Keys,
+			key{"kind", "node", "kind", "string", "continuous, binary or categorical"},
+			key{"levels", "node", "levels", "string", "the variable's values as a JSON array, the reference first; a binary variable is coded 0 for the first and 1 for the second"},
+			key{"reference", "node", "reference", "string", "the level effects are measured against"},
+			key{"coding", "node", "coding", "string", "the coding in words"})
+	}
 	for i, n := range g.names {
-		d.Graph.Nodes = append(d.Graph.Nodes, node{ID: fmt.Sprintf("n%d", i), Data: []data{{"name", n}}})
+		nd := node{ID: fmt.Sprintf("n%d", i), Data: []data{{"name", n}}}
+		if info, ok := nodes[n]; ok {
+			if info.Kind != "" {
+				nd.Data = append(nd.Data, data{"kind", info.Kind})
+			}
+			if len(info.Levels) > 0 {
+				b, err := json.Marshal(info.Levels)
+				if err != nil {
+					return err
+				}
+				nd.Data = append(nd.Data, data{"levels", string(b)}, data{"reference", info.Levels[0]})
+			}
+			if info.Coding != "" {
+				nd.Data = append(nd.Data, data{"coding", info.Coding})
+			}
+		}
+		d.Graph.Nodes = append(d.Graph.Nodes, nd)
 	}
 	num := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 	for k, e := range g.edges {

@@ -33,8 +33,12 @@ type Edge struct {
 	Coefficient float64
 	// Lower and Upper bound Coefficient's 95% confidence interval.
 	Lower, Upper float64
-	// Standardized is the effect per standard deviation of the parent
-	// (and of the child, for a continuous child).
+	// Standardized is the edge's strength on one scale for every edge,
+	// the meaning StandardizedMeaning states: the effect per standard
+	// deviation of a continuous parent, from 0 to 1 for a binary parent,
+	// from the reference to the strongest level for a categorical parent;
+	// in standard deviations of a continuous child, in log odds for a
+	// binary child.
 	Standardized float64
 	// Frequency is the share of resamples that selected the edge.
 	Frequency float64
@@ -43,6 +47,12 @@ type Edge struct {
 	// Required marks an edge forced by the order.
 	Required bool
 }
+
+// StandardizedMeaning says in words what Edge.Standardized measures, for
+// display wherever the number is shown.
+const StandardizedMeaning = "standardised effect: per standard deviation of a continuous parent, " +
+	"from 0 to 1 (reference to coded 1) for a binary parent, from the reference to the strongest level for a categorical parent; " +
+	"measured in standard deviations of a continuous child and in log odds of a binary child"
 
 // NewEdge returns an edge with every attribute unknown.
 func NewEdge(from, to string) Edge {

@@ -74,6 +74,11 @@ func Order() *order.Order {
 	}
 }
 
+// TextCodes names the binary variables that the demonstration CSV writes
+// as text, as exports often do, with the words for 0 and 1. Read back,
+// "no" is their reference level and "yes" is coded 1, as in Model.
+var TextCodes = map[string][2]string{"readmitted_30d": {"no", "yes"}}
+
 // WriteFiles writes the demonstration data (CSV), order (text form) and
 // known graph (edge-list CSV) drawn from Model with Seed.
 func WriteFiles(data, orderText, truth io.Writer) error {
@@ -89,7 +94,9 @@ func WriteFiles(data, orderText, truth io.Writer) error {
 			if j > 0 {
 				b.WriteByte(',')
 			}
-			if m.Nodes[j].Binary {
+			if t, ok := TextCodes[m.Nodes[j].Name]; ok {
+				b.WriteString(t[int(c[i])])
+			} else if m.Nodes[j].Binary {
 				b.WriteString(strconv.Itoa(int(c[i])))
 			} else {
 				b.WriteString(strconv.FormatFloat(c[i], 'f', 2, 64))

@@ -1,11 +1,10 @@
 package table
 
 import (
-	"encoding/csv"
-	"errors"
 	"fmt"
 	"io"
-	"math"
+	"runtime"
+	"slices"
 	"strconv"
 	"strings"
 )
@@ -13,9 +12,33 @@ import (
 // CSVOptions bounds and tunes ReadCSV. The zero value, or nil, gives the
 // defaults written on each field.
 type CSVOptions struct {
-	// Comma is the field separator; zero means ','.
+	// Comma is the field separator, a single-byte character; zero means
+	// ','.
 	Comma rune
-	// MaxFieldBytes bounds one field; zero means 1 MiB.
+	// DecimalComma reads numbers written with a decimal comma ("7,5"); a
+	// number with a decimal point is then not a number. With ',' as the
+	// separator such numbers must be quoted.
+	DecimalComma bool
+	// MissingCodes lists cell values that mark a missing value besides the
+	// empty cell and NA, NaN, N/A and null (any case), for example ".",
+	// "-" or "999". They are matched exactly, after surrounding spaces are
+	// trimmed, in every column.
+	MissingCodes []string
+	// Reference maps a binary or categorical text column to its reference
+	// level: coded 0, or left out of the indicators. A column not named
+	// takes the default of DefaultReference.
+	Reference map[string]string
+	// CodedOne maps a binary text column to the level coded 1 (the other
+	// level becomes the reference).
+	CodedOne map[string]string
+	// AsIs lists columns read as they are, without the checks for odd
+	// cells: a column of numbers with some text cells is read as text, a
+	// text column keeps its rare levels and levels that differ only in
+	// case, and a column of 0s and 1s with a few other numbers is read as
+	// continuous.
+	AsIs []string
+	// MaxFieldBytes bounds one field; zero means 1 MiB. A line may hold at
+	// most four times as many bytes.
 	MaxFieldBytes int
 	// MaxColumns bounds the number of columns; zero means 10,000.
 	MaxColumns int
@@ -23,218 +46,291 @@ type CSVOptions struct {
 	MaxLevels int
 	// MaxRows bounds the number of data rows; zero means no bound.
 	MaxRows int
+	// Workers bounds the goroutines that parse the file's blocks; zero
+	// means GOMAXPROCS.
+	Workers int
 }
 
-// CSVError reports a problem at a line and column of a CSV file.
+// CSVError reports a problem at a line and column of a CSV file, with the
+// changes of options that would let the file be read, if any.
 type CSVError struct {
 	Line   int    // 1-based line in the file
-	Column int    // 1-based column, 0 when not about one column
+	Column int    // 1-based column (field) number, 0 when not about one column
 	Name   string // the column's header name, when known
 	Err    error
+	// Fixes lists the options that would resolve the problem, each with
+	// the condition under which it is the right one. Correcting the file
+	// is always another way.
+	Fixes []Fix
 }
 
-// Error implements the error interface.
-func (e *CSVError) Error() string {
+// Fix is one way to resolve a CSVError: a CSVOptions field and the value
+// to give it (or to add to it, for a list).
+type Fix struct {
+	Option string // "Comma", "DecimalComma", "MissingCodes" or "AsIs"
+	Value  string // the separator, missing-value code or column name; "" for DecimalComma
+	When   string // when this is the right fix, e.g. "if it marks a missing value"
+}
+
+// Error implements the error interface; fixes are written as CSVOptions
+// settings.
+func (e *CSVError) Error() string { return "table: " + e.Describe(libraryFix) }
+
+// Describe returns the message without the package prefix, writing each
+// fix with option, which lets a program name its own settings (a
+// command-line flag, say) instead of the CSVOptions fields.
+func (e *CSVError) Describe(option func(Fix) string) string {
+	var b strings.Builder
 	switch {
 	case e.Column > 0 && e.Name != "":
-		return fmt.Sprintf("table: CSV line %d, column %d (%q): %v", e.Line, e.Column, e.Name, e.Err)
+		fmt.Fprintf(&b, "CSV line %d, column %d (%q): %v", e.Line, e.Column, e.Name, e.Err)
 	case e.Column > 0:
-		return fmt.Sprintf("table: CSV line %d, column %d: %v", e.Line, e.Column, e.Err)
+		fmt.Fprintf(&b, "CSV line %d, column %d: %v", e.Line, e.Column, e.Err)
+	default:
+		fmt.Fprintf(&b, "CSV line %d: %v", e.Line, e.Err)
 	}
-	return fmt.Sprintf("table: CSV line %d: %v", e.Line, e.Err)
+	for i, f := range e.Fixes {
+		switch {
+		case i == 0 && e.Column > 0:
+			b.WriteString("; correct the file, or ")
+		case i == 0:
+			b.WriteString("; ")
+		default:
+			b.WriteString(", or ")
+		}
+		b.WriteString(option(f))
+		if f.When != "" {
+			b.WriteString(" (" + f.When + ")")
+		}
+	}
+	return b.String()
+}
+
+func libraryFix(f Fix) string {
+	switch f.Option {
+	case "Comma":
+		return fmt.Sprintf("set CSVOptions.Comma to %s", strconv.QuoteRune(rune(f.Value[0])))
+	case "DecimalComma":
+		return "set CSVOptions.DecimalComma"
+	case "MissingCodes":
+		return fmt.Sprintf("add %q to CSVOptions.MissingCodes", f.Value)
+	case "AsIs":
+		return fmt.Sprintf("add %q to CSVOptions.AsIs", f.Value)
+	case "MaxLevels":
+		return "raise CSVOptions.MaxLevels"
+	}
+	return f.Option + " " + f.Value
 }
 
 // Unwrap returns the underlying error.
 func (e *CSVError) Unwrap() error { return e.Err }
 
-// isMissing reports whether a cell marks a missing value.
-func isMissing(s string) bool {
-	switch strings.ToLower(s) {
-	case "", "na", "nan", "n/a", "null":
-		return true
-	}
-	return false
+// problem is an error that reads as its message alone and matches a
+// sentinel with errors.Is.
+type problem struct {
+	is  error
+	msg string
 }
 
-// ReadCSV reads a dataset from CSV with a header row. Cells that are
-// empty, NA, NaN, N/A or null (any case) are missing. A column whose
-// present cells are all numbers is numeric (Binary when they are all 0 or
-// 1, Continuous otherwise); true/false (any case) count as 1/0; any other
-// text makes the column a text column (see Dataset.AddText). A leading
-// byte-order mark is ignored. Errors name the line and column.
+func (p *problem) Error() string        { return p.msg }
+func (p *problem) Is(target error) bool { return target == p.is }
+
+func badCSV(format string, args ...any) error {
+	return &problem{ErrCSV, fmt.Sprintf(format, args...)}
+}
+
+func badData(format string, args ...any) error {
+	return &problem{ErrData, fmt.Sprintf(format, args...)}
+}
+
+// ReadCSV reads a dataset from CSV with a header row, as RFC 4180
+// describes it (fields may be quoted, quoted fields may hold separators,
+// doubled quotes and line breaks); empty lines are skipped and a leading
+// byte-order mark is ignored. Surrounding spaces are trimmed from names
+// and cells. Cells that are empty, NA, NaN, N/A or null (any case), or one
+// of opts.MissingCodes, are missing.
+//
+// A column whose present cells are all numbers is numeric: Binary when
+// they are all 0 or 1, Continuous otherwise; true and false (any case)
+// count as 1 and 0 in a column of 0/1 values. A column whose present cells
+// are all text is a text column (see Dataset.AddText; opts.Reference and
+// opts.CodedOne choose its coding). Nothing is re-typed silently: a column
+// that mixes numbers and text, a text column with a rare level (at most
+// five cells and at most 1% of the column, in a column of three or more
+// levels) or with two levels that differ only in case, and a column of 0s
+// and 1s with a few other numbers (as few) are errors that list the odd
+// cells with their lines, unless the column is in opts.AsIs.
+//
+// Errors are *CSVError values naming the line and column, with the
+// options that would resolve them; a header with one field that holds
+// another common separator says which. The file is parsed in blocks on
+// opts.Workers goroutines; the result does not depend on their number.
 func ReadCSV(r io.Reader, opts *CSVOptions) (*Dataset, error) {
-	var o CSVOptions
-	if opts != nil {
-		o = *opts
+	rd, err := newReader(opts)
+	if err != nil {
+		return nil, err
 	}
+	return rd.read(r)
+}
+
+// reader holds one ReadCSV call's resolved settings.
+type reader struct {
+	o       CSVOptions
+	comma   byte
+	point   byte
+	codes   map[string]bool
+	numCode bool // a missing-value code reads as a number
+	maxLine int
+	workers int
+	names   []string
+}
+
+func newReader(opts *CSVOptions) (*reader, error) {
+	rd := &reader{comma: ',', point: '.'}
+	if opts != nil {
+		rd.o = *opts
+	}
+	o := &rd.o
 	if o.MaxFieldBytes <= 0 {
 		o.MaxFieldBytes = 1 << 20
 	}
 	if o.MaxColumns <= 0 {
 		o.MaxColumns = 10_000
 	}
-	cr := csv.NewReader(&limitedLines{r: r, max: o.MaxFieldBytes * 4})
+	if o.MaxLevels <= 0 {
+		o.MaxLevels = 50
+	}
+	rd.maxLine = 4 * o.MaxFieldBytes
 	if o.Comma != 0 {
-		cr.Comma = o.Comma
+		if o.Comma >= 0x80 || o.Comma == '"' || o.Comma == '\r' || o.Comma == '\n' || o.Comma == ' ' {
+			return nil, fmt.Errorf("%w: separator %q is not supported; use a single-byte character other than a quote, a space or a line break", ErrCSV, o.Comma)
+		}
+		rd.comma = byte(o.Comma)
 	}
-	cr.ReuseRecord = true
-	head, err := cr.Read()
-	if errors.Is(err, io.EOF) {
-		return nil, &CSVError{Line: 1, Err: fmt.Errorf("%w: empty file, expected a header row", ErrCSV)}
+	if o.DecimalComma {
+		rd.point = ','
 	}
-	if err != nil {
-		return nil, csvErr(err)
+	var scratch []byte
+	for _, c := range o.MissingCodes {
+		c = strings.TrimSpace(c)
+		if c == "" {
+			continue
+		}
+		if rd.codes == nil {
+			rd.codes = map[string]bool{}
+		}
+		rd.codes[c] = true
+		if _, ok := parseNumber([]byte(c), rd.point, &scratch); ok {
+			rd.numCode = true
+		}
 	}
-	if len(head) > o.MaxColumns {
-		return nil, &CSVError{Line: 1, Err: fmt.Errorf("%w: %d columns, more than the limit of %d", ErrCSV, len(head), o.MaxColumns)}
+	rd.workers = o.Workers
+	if rd.workers <= 0 {
+		rd.workers = runtime.GOMAXPROCS(0)
 	}
-	names := make([]string, len(head))
-	seen := map[string]int{}
-	for j, h := range head {
+	return rd, nil
+}
+
+// header checks the header's fields and stores the column names.
+func (rd *reader) header(fields [][]byte, raw []byte) error {
+	if len(fields) == 1 {
+		if err := rd.separatorHint(raw); err != nil {
+			return err
+		}
+	}
+	if len(fields) > rd.o.MaxColumns {
+		return &CSVError{Line: 1, Err: badCSV("%d columns, more than the limit of %d", len(fields), rd.o.MaxColumns)}
+	}
+	seen := make(map[string]int, len(fields))
+	rd.names = make([]string, len(fields))
+	for j, f := range fields {
+		h := string(f)
 		if j == 0 {
 			h = strings.TrimPrefix(h, "\ufeff")
 		}
 		h = strings.TrimSpace(h)
 		if h == "" {
-			return nil, &CSVError{Line: 1, Column: j + 1, Err: fmt.Errorf("%w: empty column name", ErrCSV)}
+			return &CSVError{Line: 1, Column: j + 1, Err: badCSV("empty column name")}
 		}
 		if k, dup := seen[h]; dup {
-			return nil, &CSVError{Line: 1, Column: j + 1, Name: h, Err: fmt.Errorf("%w: name also used by column %d", ErrCSV, k+1)}
+			return &CSVError{Line: 1, Column: j + 1, Name: h, Err: badCSV("name also used by column %d", k+1)}
 		}
-		if len(h) > o.MaxFieldBytes {
-			return nil, &CSVError{Line: 1, Column: j + 1, Err: fmt.Errorf("%w: name longer than %d bytes", ErrCSV, o.MaxFieldBytes)}
+		if len(h) > rd.o.MaxFieldBytes {
+			return &CSVError{Line: 1, Column: j + 1, Err: badCSV("name longer than %d bytes", rd.o.MaxFieldBytes)}
 		}
 		seen[h] = j
-		names[j] = h
+		rd.names[j] = h
 	}
-	p := len(names)
-	nums := make([][]float64, p)
-	texts := make([][]string, p) // non-nil once a column turns out to be text
-	textLine := make([]int, p)
-	rows := 0
-	for {
-		rec, err := cr.Read()
-		if errors.Is(err, io.EOF) {
+	for _, opt := range []struct {
+		field string
+		names []string
+	}{{"Reference", mapKeys(rd.o.Reference)}, {"CodedOne", mapKeys(rd.o.CodedOne)}, {"AsIs", rd.o.AsIs}} {
+		for _, n := range opt.names {
+			if _, ok := seen[n]; !ok {
+				return fmt.Errorf("%w: CSVOptions.%s names %q, which is not a column of the file (columns: %s)", ErrCSV, opt.field, n, listNames(rd.names, 12))
+			}
+		}
+	}
+	return nil
+}
+
+func mapKeys(m map[string]string) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	slices.Sort(keys)
+	return keys
+}
+
+// listNames quotes up to max names, then says how many more.
+func listNames(names []string, max int) string {
+	q := make([]string, 0, min(len(names), max)+1)
+	for i, n := range names {
+		if i == max {
+			q = append(q, fmt.Sprintf("and %d more", len(names)-max))
 			break
 		}
-		if err != nil {
-			var pe *csv.ParseError
-			if errors.As(err, &pe) && errors.Is(pe.Err, csv.ErrFieldCount) {
-				return nil, &CSVError{Line: pe.Line, Err: fmt.Errorf("%w: row has %d field(s), the header has %d", ErrCSV, len(rec), p)}
-			}
-			return nil, csvErr(err)
-		}
-		line, _ := cr.FieldPos(0)
-		row := rows
-		if o.MaxRows > 0 && row >= o.MaxRows {
-			return nil, &CSVError{Line: line, Err: fmt.Errorf("%w: more than %d rows", ErrCSV, o.MaxRows)}
-		}
-		for j, s := range rec {
-			if len(s) > o.MaxFieldBytes {
-				return nil, &CSVError{Line: line, Column: j + 1, Name: names[j], Err: fmt.Errorf("%w: field longer than %d bytes", ErrCSV, o.MaxFieldBytes)}
-			}
-			s = strings.TrimSpace(s)
-			if texts[j] != nil {
-				if isMissing(s) {
-					s = ""
-				}
-				texts[j] = append(texts[j], strings.Clone(s))
-				continue
-			}
-			x, err := parseCell(s)
-			if err != nil {
-				if errors.Is(err, errInfinite) {
-					return nil, &CSVError{Line: line, Column: j + 1, Name: names[j], Err: fmt.Errorf("%w: %q is infinite", ErrData, s)}
-				}
-				// The column is text: convert what was read so far.
-				texts[j] = make([]string, row, row+1024)
-				for i := range row {
-					if !math.IsNaN(nums[j][i]) {
-						texts[j][i] = strconv.FormatFloat(nums[j][i], 'g', -1, 64)
-					}
-				}
-				textLine[j] = line
-				texts[j] = append(texts[j], strings.Clone(s))
-				nums[j] = nil
-				continue
-			}
-			nums[j] = append(nums[j], x)
-		}
-		rows++
+		q = append(q, strconv.Quote(n))
 	}
-	if rows == 0 {
-		return nil, &CSVError{Line: 2, Err: fmt.Errorf("%w: header only, no data rows", ErrCSV)}
+	return strings.Join(q, ", ")
+}
+
+var separatorNames = map[byte]string{',': "commas", ';': "semicolons", '\t': "tabs", '|': "vertical bars"}
+
+// counted returns the plural noun plural, made singular for one.
+func counted(n int, plural string) string {
+	if n == 1 {
+		return strings.TrimSuffix(plural, "s")
 	}
-	d := &Dataset{rows: rows}
-	for j, name := range names {
-		if texts[j] != nil {
-			if err := d.AddText(name, texts[j], o.MaxLevels); err != nil {
-				return nil, &CSVError{Line: textLine[j], Column: j + 1, Name: name, Err: err}
-			}
+	return plural
+}
+
+func separatorName(c byte) string {
+	if n, ok := separatorNames[c]; ok {
+		return n
+	}
+	return fmt.Sprintf("%q characters", c)
+}
+
+// separatorHint returns an error when a one-field header holds another
+// common separator: the file is most likely separated by it.
+func (rd *reader) separatorHint(raw []byte) error {
+	best, n := byte(0), 0
+	for _, c := range []byte{',', ';', '\t', '|'} {
+		if c == rd.comma {
 			continue
 		}
-		if err := d.addNumeric(name, nums[j]); err != nil {
-			return nil, &CSVError{Line: 1, Column: j + 1, Name: name, Err: err}
+		if k := strings.Count(string(raw), string(c)); k > n {
+			best, n = c, k
 		}
 	}
-	return d, nil
+	if n == 0 {
+		return nil
+	}
+	return &CSVError{Line: 1, Err: badCSV("the header has no %s but %d %s, so the file looks separated by %s",
+		separatorName(rd.comma), n, counted(n, separatorNames[best]), separatorNames[best]),
+		Fixes: []Fix{{Option: "Comma", Value: string(best)}}}
 }
 
-var errInfinite = errors.New("infinite")
-
-func parseCell(s string) (float64, error) {
-	if isMissing(s) {
-		return math.NaN(), nil
-	}
-	switch strings.ToLower(s) {
-	case "true":
-		return 1, nil
-	case "false":
-		return 0, nil
-	}
-	x, err := strconv.ParseFloat(s, 64)
-	if err != nil {
-		var ne *strconv.NumError
-		if errors.As(err, &ne) && errors.Is(ne.Err, strconv.ErrRange) {
-			return 0, errInfinite
-		}
-		return 0, err
-	}
-	if math.IsInf(x, 0) {
-		return 0, errInfinite
-	}
-	return x, nil
-}
-
-func csvErr(err error) error {
-	var pe *csv.ParseError
-	if errors.As(err, &pe) {
-		return &CSVError{Line: pe.Line, Column: pe.Column, Err: fmt.Errorf("%w: %v", ErrCSV, pe.Err)}
-	}
-	return &CSVError{Line: 0, Err: err}
-}
-
-// limitedLines fails a read when a single line exceeds max bytes, so a
-// hostile file cannot make the CSV reader buffer without bound.
-type limitedLines struct {
-	r    io.Reader
-	max  int
-	line int
-}
-
-var errLineTooLong = errors.New("line too long")
-
-func (l *limitedLines) Read(p []byte) (int, error) {
-	n, err := l.r.Read(p)
-	for _, b := range p[:n] {
-		if b == '\n' {
-			l.line = 0
-			continue
-		}
-		l.line++
-		if l.line > l.max {
-			return 0, fmt.Errorf("%w: %w (more than %d bytes)", ErrCSV, errLineTooLong, l.max)
-		}
-	}
-	return n, err
-}
+func (rd *reader) asIs(j int) bool { return slices.Contains(rd.o.AsIs, rd.names[j]) }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strconv"
 	"strings"
 )
 
@@ -18,8 +19,8 @@ const (
 	// responses.
 	Binary
 	// Categorical variables take a few text levels; as predictors they
-	// enter as indicator columns (the first level is the reference), and
-	// they cannot be responses.
+	// enter as indicator columns, one per level other than the reference,
+	// and they cannot be responses.
 	Categorical
 )
 
@@ -58,9 +59,70 @@ var (
 type Variable struct {
 	Name string
 	Kind Kind
-	// Levels holds a categorical variable's levels, reference first, or
-	// a binary text variable's two levels (the second is coded 1).
+	// Levels holds the values of a binary or categorical variable, the
+	// reference first; nil for a continuous one. A binary variable is
+	// coded 0 for Levels[0] and 1 for Levels[1]; one read from numbers has
+	// the levels "0" and "1" ("false" and "true" when written so). A
+	// categorical variable enters a model as one indicator per level after
+	// the first.
 	Levels []string
+}
+
+// Reference returns the level a binary or categorical variable's effects
+// are measured against ("" for a continuous variable).
+func (v Variable) Reference() string {
+	if len(v.Levels) == 0 {
+		return ""
+	}
+	return v.Levels[0]
+}
+
+// Coding says in words how the variable enters a model: for a binary
+// variable which value is coded 1 and which 0, for a categorical one which
+// levels are compared with which reference; "" for a continuous variable.
+// For example `"yes" = 1, "no" = 0 (reference)` and
+// `"north", "south" each vs "east" (reference)`.
+func (v Variable) Coding() string {
+	switch {
+	case len(v.Levels) < 2:
+		return ""
+	case v.Kind == Binary && v.Levels[0] == "0" && v.Levels[1] == "1":
+		return "1 vs 0 (reference)"
+	case v.Kind == Binary:
+		return fmt.Sprintf("%q = 1, %q = 0 (reference)", v.Levels[1], v.Levels[0])
+	case v.Kind == Categorical:
+		q := make([]string, len(v.Levels)-1)
+		for i, l := range v.Levels[1:] {
+			q[i] = strconv.Quote(l)
+		}
+		return fmt.Sprintf("%s each vs %q (reference)", strings.Join(q, ", "), v.Levels[0])
+	}
+	return ""
+}
+
+// Contrast says what an effect of design column c compares, as a phrase
+// to follow a number: "per unit" for a continuous variable, `"yes" vs
+// "no"` for a binary one, `"north" vs "east"` for a categorical
+// indicator.
+func (d *Dataset) Contrast(c int) string {
+	vi := d.colVar[c]
+	v := d.vars[vi]
+	switch {
+	case v.Kind == Continuous || len(v.Levels) < 2:
+		return "per unit"
+	case v.Kind == Binary:
+		return fmt.Sprintf("%s vs %s", quoteLevel(v.Levels[1]), quoteLevel(v.Levels[0]))
+	}
+	k := slices.Index(d.varCols[vi], c)
+	return fmt.Sprintf("%q vs %q", v.Levels[k+1], v.Levels[0])
+}
+
+// quoteLevel quotes a text level; the numeric levels 0 and 1 stay bare.
+func quoteLevel(l string) string {
+	if l == "0" || l == "1" {
+		return l
+	}
+	return strconv.Quote(l)
 }
 
 // Dataset is a table of named variables stored column-major. Numeric
@@ -72,6 +134,7 @@ type Dataset struct {
 	varCols [][]int     // design columns of each variable
 	colVar  []int       // variable of each design column
 	rows    int
+	lines   []int // file line of each row, when read from a file
 }
 
 // NewDataset returns a dataset of numeric columns, one per name. A column
@@ -119,14 +182,36 @@ func (d *Dataset) addNumeric(name string, c []float64) error {
 	kind := Binary
 	for i, x := range c {
 		if math.IsInf(x, 0) {
-			return fmt.Errorf("%w: column %q row %d is %g", ErrData, name, i+1, x)
+			return fmt.Errorf("%w: column %q %s is %g", ErrData, name, d.where(i), x)
 		}
 		if !math.IsNaN(x) && x != 0 && x != 1 {
 			kind = Continuous
 		}
 	}
-	d.addVariable(Variable{Name: name, Kind: kind}, [][]float64{c})
+	v := Variable{Name: name, Kind: kind}
+	if kind == Binary {
+		v.Levels = []string{"0", "1"}
+	}
+	d.addVariable(v, [][]float64{c})
 	return nil
+}
+
+// where names row i (0-based) for a message: its file line when the
+// dataset was read from a file, else its 1-based data row.
+func (d *Dataset) where(i int) string {
+	if i < len(d.lines) {
+		return fmt.Sprintf("line %d", d.lines[i])
+	}
+	return fmt.Sprintf("data row %d", i+1)
+}
+
+// Line returns the file line of row i (0-based) of a dataset read by
+// ReadCSV, and 0 for a dataset built otherwise or a row out of range.
+func (d *Dataset) Line(i int) int {
+	if i < 0 || i >= len(d.lines) {
+		return 0
+	}
+	return d.lines[i]
 }
 
 func (d *Dataset) addVariable(v Variable, cols [][]float64) {
@@ -139,68 +224,6 @@ func (d *Dataset) addVariable(v Variable, cols [][]float64) {
 		d.colVar = append(d.colVar, vi)
 	}
 	d.varCols = append(d.varCols, idx)
-}
-
-// AddText adds a text variable. Empty strings are missing. Two distinct
-// values make it Binary (the value that sorts last is coded 1), more make
-// it Categorical with levels in sorted order, the first the reference.
-// It returns an error for a bad name, a length mismatch, a single distinct
-// value, or more than maxLevels levels (0 means 50).
-func (d *Dataset) AddText(name string, values []string, maxLevels int) error {
-	if err := d.checkName(name); err != nil {
-		return err
-	}
-	if (len(d.vars) > 0 || d.rows > 0) && len(values) != d.rows {
-		return fmt.Errorf("%w: column %q has %d rows, expected %d", ErrData, name, len(values), d.rows)
-	}
-	if maxLevels <= 0 {
-		maxLevels = 50
-	}
-	set := map[string]bool{}
-	for _, s := range values {
-		if s != "" {
-			set[s] = true
-			if len(set) > maxLevels {
-				return fmt.Errorf("%w: column %q has more than %d distinct text values", ErrData, name, maxLevels)
-			}
-		}
-	}
-	levels := make([]string, 0, len(set))
-	for s := range set {
-		levels = append(levels, s)
-	}
-	slices.Sort(levels)
-	if len(levels) < 2 {
-		return fmt.Errorf("%w: text column %q has %d distinct values; it needs two or more", ErrData, name, len(levels))
-	}
-	if len(d.vars) == 0 && d.rows == 0 {
-		d.rows = len(values)
-	}
-	code := make(map[string]int, len(levels))
-	for i, s := range levels {
-		code[s] = i
-	}
-	kind := Categorical
-	first := 1
-	if len(levels) == 2 {
-		kind = Binary
-	}
-	cols := make([][]float64, len(levels)-first)
-	for k := range cols {
-		cols[k] = make([]float64, len(values))
-	}
-	for i, s := range values {
-		for k := range cols {
-			switch {
-			case s == "":
-				cols[k][i] = math.NaN()
-			case code[s] == k+first:
-				cols[k][i] = 1
-			}
-		}
-	}
-	d.addVariable(Variable{Name: name, Kind: kind, Levels: levels}, cols)
-	return nil
 }
 
 // Rows returns the number of rows.
@@ -247,8 +270,9 @@ func (d *Dataset) Column(name string) ([]float64, error) {
 }
 
 // SetKind overrides the kind of a numeric variable: Binary requires every
-// present value to be 0 or 1; Continuous is always allowed for a numeric
-// variable. Categorical variables keep their kind.
+// present value to be 0 or 1; Continuous is allowed for a variable read
+// from numbers (or true/false), not for one read from text. Categorical
+// variables keep their kind.
 func (d *Dataset) SetKind(name string, k Kind) error {
 	i, err := d.lookup(name)
 	if err != nil {
@@ -261,12 +285,22 @@ func (d *Dataset) SetKind(name string, k Kind) error {
 		}
 		return fmt.Errorf("%w: %q cannot change between %v and %v", ErrData, name, v.Kind, k)
 	}
+	if k == v.Kind {
+		return nil
+	}
 	if k == Binary {
 		for r, x := range d.cols[d.varCols[i][0]] {
 			if !math.IsNaN(x) && x != 0 && x != 1 {
-				return fmt.Errorf("%w: %q cannot be binary: row %d is %g", ErrData, name, r+1, x)
+				return fmt.Errorf("%w: %q cannot be binary: %s is %g", ErrData, name, d.where(r), x)
 			}
 		}
+		v.Levels = []string{"0", "1"}
+	}
+	if k == Continuous && !numericLevels(v.Levels) {
+		return fmt.Errorf("%w: %q holds the text values %q and %q and cannot be continuous", ErrData, name, v.Levels[0], v.Levels[1])
+	}
+	if k == Continuous {
+		v.Levels = nil
 	}
 	v.Kind = k
 	return nil
@@ -290,4 +324,10 @@ func (d *Dataset) TermName(c int) string {
 	}
 	k := slices.Index(d.varCols[vi], c)
 	return v.Name + "=" + v.Levels[k+1]
+}
+
+// numericLevels reports whether a binary variable's levels are numbers
+// ("0", "1") or truth values ("false", "true"), not text.
+func numericLevels(l []string) bool {
+	return len(l) == 2 && (l[0] == "0" && l[1] == "1" || l[0] == "false" && l[1] == "true")
 }

@@ -1,6 +1,7 @@
 package table_test
 
 import (
+	"errors"
 	"fmt"
 	"log"
 	"strings"
@@ -9,28 +10,43 @@ import (
 )
 
 // ExampleReadCSV reads a small table with a numeric, a 0/1, a two-valued
-// text and a three-valued text column, and a missing cell.
+// text and a three-valued text column, and a missing cell, choosing the
+// reference level of site; each variable's coding says which value is 1
+// and what effects are measured against.
 func ExampleReadCSV() {
-	in := `age,smoker,sex,site
-61,1,female,north
-70,0,male,south
-55,1,male,east
-48,,female,north
+	in := `age,smoker,readmitted,site
+61,1,no,north
+70,0,yes,south
+55,1,no,east
+48,,no,north
 `
-	d, err := table.ReadCSV(strings.NewReader(in), nil)
+	d, err := table.ReadCSV(strings.NewReader(in), &table.CSVOptions{Reference: map[string]string{"site": "east"}})
 	if err != nil {
 		log.Fatal(err)
 	}
 	for _, v := range d.Variables() {
-		fmt.Println(v.Name, v.Kind, v.Levels)
+		fmt.Println(strings.TrimSpace(fmt.Sprintln(v.Name, v.Kind, v.Levels, v.Coding())))
 	}
 	fmt.Println(d.Missing())
 	// Output:
 	// age continuous []
-	// smoker binary []
-	// sex binary [female male]
-	// site categorical [east north south]
-	// table: missing values: "smoker" has 1 (rows 4); choose a missing-value policy (complete-case or available-case) to proceed
+	// smoker binary [0 1] 1 vs 0 (reference)
+	// readmitted binary [no yes] "yes" = 1, "no" = 0 (reference)
+	// site categorical [east north south] "north", "south" each vs "east" (reference)
+	// table: missing values: "smoker" has 1 missing value (line 5); choose the missing-value policy CompleteCase or AvailableCase to proceed
+}
+
+// ExampleCSVError_Describe shows an odd cell reported with its line and
+// column, and the fixes written as a program's own settings.
+func ExampleCSVError_Describe() {
+	in := "age,smoker\n61,1\n7O,0\n55,1\n"
+	_, err := table.ReadCSV(strings.NewReader(in), nil)
+	var ce *table.CSVError
+	if errors.As(err, &ce) {
+		fmt.Println(ce.Describe(func(f table.Fix) string { return "--as-is " + f.Value }))
+	}
+	// Output:
+	// CSV line 3, column 1 ("age"): "7O" is not a number, and the column's other 2 values are; correct the file, or --as-is age (to read the column as text)
 }
 
 // ExampleDataset_Usable shows the rows each missing-value policy keeps.
@@ -50,4 +66,26 @@ func ExampleDataset_Usable() {
 	fmt.Println(all, ab, err != nil)
 	// Output:
 	// [0 3] [0 2 3] true
+}
+
+// ExampleDataset_SetReference measures a three-level variable's effects
+// against a chosen level instead of the default (the most common one).
+func ExampleDataset_SetReference() {
+	d := &table.Dataset{}
+	if err := d.AddText("stage", []string{"early", "late", "early", "middle", "early"}, 0); err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(d.Variables()[0].Coding())
+	if err := d.SetReference("stage", "late"); err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(d.Variables()[0].Coding())
+	for _, c := range d.Terms(0) {
+		fmt.Println(d.TermName(c), d.Contrast(c), d.Columns()[c])
+	}
+	// Output:
+	// "late", "middle" each vs "early" (reference)
+	// "early", "middle" each vs "late" (reference)
+	// stage=early "early" vs "late" [1 0 1 0 1]
+	// stage=middle "middle" vs "late" [0 0 0 1 0]
 }

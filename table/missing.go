@@ -12,6 +12,9 @@ type MissingColumn struct {
 	Name      string
 	Count     int
 	FirstRows []int // up to five 1-based data rows
+	// FirstLines holds the file lines of FirstRows for a dataset read by
+	// ReadCSV, nil otherwise.
+	FirstLines []int
 }
 
 // MissingError lists every variable with missing values.
@@ -21,20 +24,38 @@ type MissingError struct {
 
 // Error implements the error interface.
 func (e *MissingError) Error() string {
+	return "table: missing values: " + e.List() +
+		"; choose the missing-value policy CompleteCase or AvailableCase to proceed"
+}
+
+// List names each variable with missing values, their number and where
+// the first are: file lines for a dataset read from CSV ("line 5"), else
+// 1-based data rows ("data row 4").
+func (e *MissingError) List() string {
 	var parts []string
 	for _, c := range e.Columns {
-		rows := make([]string, len(c.FirstRows))
-		for i, r := range c.FirstRows {
-			rows[i] = fmt.Sprint(r)
+		at, word := c.FirstRows, "data row"
+		if c.FirstLines != nil {
+			at, word = c.FirstLines, "line"
+		}
+		if len(at) > 1 {
+			word += "s"
+		}
+		nums := make([]string, len(at))
+		for i, r := range at {
+			nums[i] = fmt.Sprint(r)
 		}
 		more := ""
-		if c.Count > len(c.FirstRows) {
+		if c.Count > len(at) {
 			more = ", …"
 		}
-		parts = append(parts, fmt.Sprintf("%q has %d (rows %s%s)", c.Name, c.Count, strings.Join(rows, ", "), more))
+		values := "values"
+		if c.Count == 1 {
+			values = "value"
+		}
+		parts = append(parts, fmt.Sprintf("%q has %d missing %s (%s %s%s)", c.Name, c.Count, values, word, strings.Join(nums, ", "), more))
 	}
-	return "table: missing values: " + strings.Join(parts, "; ") +
-		"; choose a missing-value policy (complete-case or available-case) to proceed"
+	return strings.Join(parts, "; ")
 }
 
 // Unwrap returns ErrMissing.
@@ -111,6 +132,9 @@ func (d *Dataset) Missing() error {
 				mc.Count++
 				if len(mc.FirstRows) < 5 {
 					mc.FirstRows = append(mc.FirstRows, i+1)
+					if d.lines != nil {
+						mc.FirstLines = append(mc.FirstLines, d.lines[i])
+					}
 				}
 			}
 		}

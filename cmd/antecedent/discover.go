@@ -116,7 +116,7 @@ func (s *settings) outputs(ctx context.Context, res *antecedent.Result, ropts *r
 			_, err = w.Write(append(b, '\n'))
 			return err
 		}},
-		{s.graphml, g.GraphML},
+		{s.graphml, res.WriteGraphML},
 		{s.report, func(w io.Writer) error { return report.Write(w, res, ropts) }},
 	}
 	for _, o := range outs {
@@ -152,9 +152,11 @@ func samePath(a, b string) bool {
 func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("discover", "--data FILE.csv --order FILE [options]", stderr)
 	var s settings
+	var rs reading
 	dataPath := fs.String("data", "", "CSV file with a header row (required)")
 	orderPath := fs.String("order", "", "order file, text or JSON form (required)")
 	s.register(fs)
+	rs.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -165,7 +167,11 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	d, err := readData(*dataPath)
+	copts, err := rs.options()
+	if err != nil {
+		return err
+	}
+	d, err := readData(*dataPath, copts)
 	if err != nil {
 		return err
 	}
@@ -175,7 +181,7 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	}
 	res, err := s.discover(ctx, d, o, cfg, stderr)
 	if err != nil {
-		return err
+		return missingHint(err)
 	}
 	if err := s.outputs(ctx, res, &report.Options{Title: "Discovered network: " + filepath.Base(*dataPath)}, *dataPath, *orderPath); err != nil {
 		return err
@@ -184,19 +190,6 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 		writeSummary(stdout, res, nil)
 	}
 	return nil
-}
-
-func readData(path string) (*table.Dataset, error) {
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	d, err := table.ReadCSV(f, nil)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	return d, nil
 }
 
 func readOrder(path string) (*order.Order, error) {

@@ -31,7 +31,8 @@ func TestDemo(t *testing.T) {
 	if strings.Contains(errs, "\r") {
 		t.Error("progress bar drawn although stderr is not a terminal")
 	}
-	for _, s := range []string{"Tier 1 — traits", "length_of_stay", "AUC", "R²", "Against the known true graph", "precision", "Caution"} {
+	for _, s := range []string{"Tier 1 — traits", "length_of_stay", "AUC", "R²", "Against the known true graph", "precision", "Caution",
+		`coded "yes" = 1, "no" = 0 (reference)`, "for 1 vs 0"} {
 		if !strings.Contains(out, s) {
 			t.Errorf("demo output lacks %q", s)
 		}

@@ -9,7 +9,6 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
-	"github.com/antecedent-lab/antecedent/table"
 )
 
 const caution = `Caution: this network is a hypothesis drawn from observational data. Unmeasured
@@ -39,6 +38,8 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 			}
 			fmt.Fprintf(w, "Each penalty chosen by %d-fold cross-validation (%s, %s); seed %d; %.1f s.\n",
 				res.Config.Folds, n.Measure, rule, res.Config.Seed, res.Timings.Total)
+			fmt.Fprintln(w, "Effects: a continuous variable's in its own units, a binary variable's as odds ratios of its value coded 1;")
+			fmt.Fprintln(w, "per unit of a continuous parent, value coded 1 vs reference for a binary parent, each level vs reference for a categorical one.")
 			break
 		}
 	}
@@ -113,6 +114,7 @@ func writeNode(w io.Writer, res *antecedent.Result, n *antecedent.Node, width in
 			note = "not fitted (see warnings)"
 		}
 		fmt.Fprintf(w, "  %s%s  %-11s  %s\n", n.Name, pad, kind, note)
+		writeCoding(w, n, width)
 		return
 	}
 	score := "R²"
@@ -126,22 +128,23 @@ func writeNode(w io.Writer, res *antecedent.Result, n *antecedent.Node, width in
 		value = n.Score.Note
 	}
 	fmt.Fprintf(w, "  %s%s  %-11s  %s  (%d rows, %d of %d candidates)\n", n.Name, pad, kind, value, n.Rows, len(n.Parents), len(n.Candidates))
+	writeCoding(w, n, width)
 	for _, p := range n.Parents {
 		for _, e := range n.Effects {
 			if e.Parent != p {
 				continue
 			}
+			contrast := "per unit"
+			if e.Contrast != "" && e.Contrast != "per unit" {
+				contrast = "for " + e.Contrast
+			}
 			var effect string
 			if e.NotEstimable != "" {
 				effect = "not estimable: " + e.NotEstimable
 			} else if !math.IsNaN(float64(e.OddsRatio)) {
-				effect = fmt.Sprintf("odds ratio %s [%s, %s]", num(e.OddsRatio, 2), num(e.OddsLower, 2), num(e.OddsUpper, 2))
+				effect = fmt.Sprintf("odds ratio %s [%s, %s] %s", num(e.OddsRatio, 2), num(e.OddsLower, 2), num(e.OddsUpper, 2), contrast)
 			} else {
-				unit := "per unit"
-				if pn, err := res.Node(p); err == nil && pn.Kind == table.Binary {
-					unit = "if present"
-				}
-				effect = fmt.Sprintf("%+.3g %s [%s, %s]", float64(e.Estimate), unit, num(e.Lower, 3), num(e.Upper, 3))
+				effect = fmt.Sprintf("%+.3g [%s, %s] %s", float64(e.Estimate), num(e.Lower, 3), num(e.Upper, 3), contrast)
 			}
 			freq := ""
 			for _, ed := range res.Edges {
@@ -170,4 +173,12 @@ func wrap(text string, width int) string {
 		line += len(word)
 	}
 	return b.String()
+}
+
+// writeCoding prints the coding of a binary or categorical node under its
+// line.
+func writeCoding(w io.Writer, n *antecedent.Node, width int) {
+	if n.Coding != "" {
+		fmt.Fprintf(w, "  %s    coded %s\n", strings.Repeat(" ", width), n.Coding)
+	}
 }

@@ -7,14 +7,35 @@ package jsonfloat
 import (
 	"encoding/json"
 	"math"
+	"strconv"
 )
 
-// Marshal returns x as JSON, null when x is NaN or infinite.
+// Marshal returns x as JSON, null when x is NaN or infinite. The digits
+// are those encoding/json writes for a float64 (the shortest that read
+// back exactly; exponent form below 1e-6 and from 1e21), formed here
+// without reflection.
 func Marshal(x float64) ([]byte, error) {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return []byte("null"), nil
 	}
-	return json.Marshal(x)
+	return appendFloat(make([]byte, 0, 24), x), nil
+}
+
+// appendFloat appends x as encoding/json's float encoder does.
+func appendFloat(b []byte, x float64) []byte {
+	format := byte('f')
+	if a := math.Abs(x); a != 0 && (a < 1e-6 || a >= 1e21) {
+		format = 'e'
+	}
+	b = strconv.AppendFloat(b, x, format, -1, 64)
+	if format == 'e' {
+		// Clean up e-09 to e-9, as encoding/json does.
+		if n := len(b); n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+			b[n-2] = b[n-1]
+			b = b[:n-1]
+		}
+	}
+	return b
 }
 
 // Unmarshal reads a JSON number, or null as NaN.
