@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"slices"
 
+	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/internal/stability"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/table"
@@ -148,4 +149,16 @@ func (nr NodeResult) fit() nodeFit {
 		f.selection = &stability.Selection{Frequency: nr.Stability.Frequency, MeanSelected: nr.Stability.MeanSelected}
 	}
 	return f
+}
+
+// MomentFolds returns the folds over which a run of configuration c with
+// n usable rows sums the moments its continuous nodes share (fold ids over
+// those rows), so that an engine summing them elsewhere uses the same
+// folds. It returns c's configuration error.
+func MomentFolds(n int, c *Config) (*cv.Folds, error) {
+	cfg, err := c.resolve()
+	if err != nil {
+		return nil, err
+	}
+	return cv.Random(n, cfg.Folds, cfg.Seed)
 }
