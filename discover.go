@@ -43,22 +43,8 @@ func DiscoverContext(ctx context.Context, d *table.Dataset, o *order.Order, c *C
 		return nil, fmt.Errorf("%w: nil context (use context.Background())", ErrConfig)
 	}
 	start := time.Now()
-	cfg, err := c.resolve()
+	r, err := newRun(ctx, d, o, c, nil)
 	if err != nil {
-		return nil, err
-	}
-	if d == nil || len(d.Names()) == 0 {
-		return nil, fmt.Errorf("%w: empty dataset", table.ErrData)
-	}
-	if o == nil {
-		return nil, fmt.Errorf("%w: no order", ErrConfig)
-	}
-	plan, err := o.Compile(d.Names())
-	if err != nil {
-		return nil, err
-	}
-	r := &run{d: d, vars: d.Variables(), cols: d.Columns(), plan: plan, cfg: cfg}
-	if err := r.prepare(ctx); err != nil {
 		return nil, err
 	}
 	prepared := time.Now()
@@ -88,6 +74,7 @@ type run struct {
 	cfg      Config
 	baseRows []int // rows every node uses (nil: every row), unless available-case
 	warnings []string
+	engine   Engine // where the heavy work runs (nil: Goroutines)
 
 	// Shared Gaussian moments over every design column, by fold.
 	folds *cv.Folds
@@ -174,19 +161,10 @@ func (r *run) sharedMoments(ctx context.Context, n int) error {
 	}
 	r.folds = &cv.Folds{K: r.cfg.Folds, ID: spreadIDs(f.ID, r.baseRows, r.d.Rows())}
 	shift := lasso.ColumnMeans(r.cols, nil, r.baseRows)
-	r.held = make([]*lasso.Moments, r.cfg.Folds)
-	err = pool.Run(ctx, r.cfg.Workers, r.cfg.Folds, func(ctx context.Context, k int) error {
-		m := lasso.NewMoments(shift)
-		if err := m.Accumulate(r.cols, nil, r.folds.Held(k, nil)); err != nil {
-			return err
-		}
-		r.held[k] = m
-		return nil
-	})
-	if err != nil {
+	if r.held, err = r.foldMoments(ctx, shift); err != nil {
 		return err
 	}
-	r.total = lasso.NewMoments(shift)
+	r.total = lasso.NewMoments(r.held[0].Shift)
 	for _, m := range r.held {
 		if err := r.total.Add(m); err != nil {
 			return err
@@ -278,7 +256,7 @@ func (r *run) fitAll(ctx context.Context) ([]nodeFit, int, error) {
 		r.cfg.Progress(Progress{Done: done, Total: len(todo), Stage: "nodes"})
 	}
 	workers := pool.Workers(r.cfg.Workers)
-	err := pool.Run(ctx, workers, len(todo), func(ctx context.Context, t int) error {
+	err := r.engineOf().Fit(ctx, &FitWork{Tasks: len(todo), Workers: workers, Fit: func(ctx context.Context, t int) error {
 		v := todo[t]
 		f, err := r.fitNode(ctx, r.planNode(v))
 		if err != nil {
@@ -287,7 +265,7 @@ func (r *run) fitAll(ctx context.Context) ([]nodeFit, int, error) {
 		fits[v] = f
 		report()
 		return nil
-	})
+	}})
 	return fits, workers, err
 }
 

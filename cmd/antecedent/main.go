@@ -34,6 +34,7 @@ var commands = []command{
 	{"discover", "discover the network of a CSV file given a time order", runDiscover},
 	{"simulate", "write data, order and true graph drawn from a random tiered network", runSimulate},
 	{"compare", "score an estimated network against a true one", runCompare},
+	{"render", "write the report and graph files of a saved result JSON", runRender},
 }
 
 func main() {
