@@ -21,6 +21,7 @@ import (
 type settings struct {
 	folds     int
 	rule      string
+	selection string
 	measure   string
 	seed      uint64
 	pairs     int
@@ -38,6 +39,7 @@ type settings struct {
 func (s *settings) register(fs *flag.FlagSet) {
 	fs.IntVar(&s.folds, "folds", 10, "cross-validation folds")
 	fs.StringVar(&s.rule, "rule", "one-se", "penalty choice: one-se or minimum")
+	fs.StringVar(&s.selection, "selection", "adaptive", "how parents are chosen: adaptive (adaptive lasso), lasso (the textbook lasso) or relaxed (relaxed lasso)")
 	fs.StringVar(&s.measure, "measure", "deviance", "cross-validated loss: deviance, mse, mae, auc or misclassification")
 	fs.Uint64Var(&s.seed, "seed", 1, "seed for folds and subsamples")
 	fs.IntVar(&s.pairs, "stability-pairs", 0, "complementary pairs for stability selection (0 = off)")
@@ -58,6 +60,9 @@ func (s *settings) config() (*antecedent.Config, error) {
 	c := &antecedent.Config{Folds: s.folds, Seed: s.seed, Workers: s.workers, SameTier: s.sameTier,
 		Stability: antecedent.Stability{Pairs: s.pairs, Threshold: s.threshold}}
 	var err error
+	if err := c.Selection.UnmarshalText([]byte(s.selection)); err != nil {
+		return nil, usageError{"--selection: " + err.Error()}
+	}
 	if c.CV.Rule, err = cv.ParseRule(s.rule); err != nil {
 		return nil, usageError{"--rule: " + err.Error()}
 	}
