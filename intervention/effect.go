@@ -156,7 +156,9 @@ func (m *Model) Effect(ctx context.Context, q Question, s *Settings) (*Answer, e
 	if ans.Failed > 0 {
 		ans.Warnings = append(ans.Warnings, fmt.Sprintf("%d of %d resamples could not refit an equation (for example separation in a small resample) and were left out", ans.Failed, set.Resamples))
 	}
-	p.fill(ans, point, boot, set.Level)
+	if err := p.fill(ctx, ans, point, boot, set.Level); err != nil {
+		return nil, err
+	}
 	ans.Method = []string{
 		"g-computation over the rows: non-descendants of the cause kept as observed, descendants regenerated in time order (continuous: fitted mean plus the row's own residual; binary: fitted probability, drawn with a latent uniform consistent with the observed value when later variables need it)",
 		fmt.Sprintf("intervals: %g%% percentile bootstrap over %d resamples of the rows; every regenerated equation and adjustment regression refitted on each resample with the discovered parent sets held fixed (discovery itself is not repeated)", 100*set.Level, set.Resamples),
@@ -648,7 +650,7 @@ func (p *plan) adjusted(ctx context.Context, f *frame, o outcomePlan, a adjustPl
 }
 
 // fill writes the point estimates and bootstrap intervals into ans.
-func (p *plan) fill(ans *Answer, point []float64, boot [][]float64, level float64) {
+func (p *plan) fill(ctx context.Context, ans *Answer, point []float64, boot [][]float64, level float64) error {
 	m := p.m
 	est := func(i int) Estimate {
 		vals := make([]float64, 0, len(boot))
@@ -685,12 +687,13 @@ func (p *plan) fill(ans *Answer, point []float64, boot [][]float64, level float6
 			for _, v := range a.set {
 				adj.Set = append(adj.Set, m.vars[v].Name)
 			}
-			_, fit, err := p.adjusted(context.Background(), full, o, a)
-			if err == nil {
-				c, se := fit.Coef[0], fit.SE[0]
-				adj.Coefficient, adj.SE = Number(c), Number(se)
-				adj.Lower, adj.Upper = Number(c-fit.Quantile*se), Number(c+fit.Quantile*se)
+			_, fit, err := p.adjusted(ctx, full, o, a)
+			if err != nil {
+				return err
 			}
+			c, se := fit.Coef[0], fit.SE[0]
+			adj.Coefficient, adj.SE = Number(c), Number(se)
+			adj.Lower, adj.Upper = Number(c-fit.Quantile*se), Number(c+fit.Quantile*se)
 			if fit.Warning != "" {
 				ans.Warnings = append(ans.Warnings, fmt.Sprintf("%s adjusted for the %s: %s", out.Name, a.name, fit.Warning))
 			}
@@ -698,6 +701,7 @@ func (p *plan) fill(ans *Answer, point []float64, boot [][]float64, level float6
 		}
 		ans.Outcomes = append(ans.Outcomes, out)
 	}
+	return nil
 }
 
 // paths fills the decomposition of outcome o from the statistics.

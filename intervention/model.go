@@ -43,7 +43,6 @@ type Model struct {
 type equation struct {
 	v       int
 	family  lasso.Family // nil: no equation (first tier, categorical, or an unsupported family)
-	name    string       // the family's name as the result gives it
 	parents []int        // variables
 	terms   []int        // design columns of the parents
 	ycol    int          // the variable's own design column
@@ -96,7 +95,7 @@ func New(ctx context.Context, res *antecedent.Result, d *table.Dataset) (*Model,
 	for v := range m.vars {
 		node, _ := res.Node(m.vars[v].Name)
 		e := &m.eqs[v]
-		e.v, e.name, e.ycol = v, node.Family, d.Terms(v)[0]
+		e.v, e.ycol = v, d.Terms(v)[0]
 		m.first[v] = len(node.Candidates) == 0
 		for _, p := range node.Parents {
 			q := m.index(p)
