@@ -41,7 +41,6 @@ type Model struct {
 // (variable, family, parents and their design columns) is fixed; the
 // values come from a refit.
 type equation struct {
-	v       int
 	family  lasso.Family // nil: no equation (first tier, categorical, or an unsupported family)
 	parents []int        // variables
 	terms   []int        // design columns of the parents
@@ -95,7 +94,7 @@ func New(ctx context.Context, res *antecedent.Result, d *table.Dataset) (*Model,
 	for v := range m.vars {
 		node, _ := res.Node(m.vars[v].Name)
 		e := &m.eqs[v]
-		e.v, e.ycol = v, d.Terms(v)[0]
+		e.ycol = d.Terms(v)[0]
 		m.first[v] = len(node.Candidates) == 0
 		for _, p := range node.Parents {
 			q := m.index(p)
