@@ -172,7 +172,7 @@ type plan struct {
 	q        Question
 	cause    int
 	causeCol int
-	regen    []int  // descendants of the cause, in time order
+	regen    []int  // descendants of the cause that are outcomes or lead to one, in time order
 	draw     []bool // by variable: binary, regenerated and needed by a regenerated child
 	varies   []bool // by variable: a parent is drawn or varies, so it changes from draw to draw
 	draws    int
