@@ -71,12 +71,12 @@ type Node struct {
 	// reference first: a binary variable is coded 0 for Levels[0] and 1
 	// for Levels[1] ("0" and "1" for a column of numbers); a categorical
 	// one enters as one indicator per later level.
-	Levels []string `json:"levels,omitempty"`
+	Levels []string `json:"levels"`
 	// Reference is the level the variable's effects are measured
 	// against (Levels[0]).
-	Reference string `json:"reference,omitempty"`
+	Reference string `json:"reference"`
 	// Coding says the coding in words, for display.
-	Coding string `json:"coding,omitempty"`
+	Coding string `json:"coding"`
 	// Tier is the node's tier, counted from 1 for the earliest.
 	Tier int `json:"tier"`
 	// TierLabel is the tier's label from the order, if any.

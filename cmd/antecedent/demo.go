@@ -15,6 +15,7 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	fs := newFlags("demo", "[options]", stderr)
 	var s settings
 	dir := fs.String("out", "antecedent-demo", "folder for result.json, network.dot and report.html (empty: write nothing)")
+	questions := fs.Bool("questions", true, "also ask the network one intervention and one planning question")
 	s.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
@@ -65,6 +66,9 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 		if len(wrote) > 0 {
 			fmt.Fprintf(stdout, "\nWrote %v.\n", wrote)
 		}
+	}
+	if *questions {
+		return demoQuestions(ctx, res, d, &s, *dir, stdout, stderr)
 	}
 	return nil
 }

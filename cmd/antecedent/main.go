@@ -5,6 +5,8 @@
 //	antecedent discover --data d.csv --order o.txt --json result.json
 //	antecedent simulate --variables 20 --rows 2000 --data d.csv --order o.txt --truth t.csv
 //	antecedent compare --estimate result.json --truth t.csv
+//	antecedent effect --result result.json --data d.csv --cause X --if set:1 --versus set:0
+//	antecedent studysize --result result.json --data d.csv --sizes 500,1000,2000 --edge "A->B"
 //
 // Run "antecedent help COMMAND" for a command's options. Errors are printed
 // as one line on standard error with a non-zero exit status.
@@ -35,6 +37,8 @@ var commands = []command{
 	{"simulate", "write data, order and true graph drawn from a random tiered network", runSimulate},
 	{"compare", "score an estimated network against a true one", runCompare},
 	{"render", "write the report and graph files of a saved result JSON", runRender},
+	{"effect", "what an intervention would change, by g-computation over a result's network", runEffect},
+	{"studysize", "rows a study needs to find each edge, by simulated studies", runStudySize},
 }
 
 func main() {

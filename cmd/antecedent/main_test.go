@@ -32,7 +32,8 @@ func TestDemo(t *testing.T) {
 		t.Error("progress bar drawn although stderr is not a terminal")
 	}
 	for _, s := range []string{"Tier 1 — traits", "length_of_stay", "AUC", "R²", "Against the known true graph", "precision", "Caution",
-		`coded "yes" = 1, "no" = 0 (reference)`, "for 1 vs 0"} {
+		`coded "yes" = 1, "no" = 0 (reference)`, "for 1 vs 0",
+		"What if tranexamic_acid were set to 1", "Rows needed to find transfusion -> length_of_stay"} {
 		if !strings.Contains(out, s) {
 			t.Errorf("demo output lacks %q", s)
 		}
@@ -47,6 +48,11 @@ func TestDemo(t *testing.T) {
 	}
 	if err := json.Unmarshal(b, &doc); err != nil || len(doc.Edges) == 0 || len(doc.Nodes) != 18 || doc.Edges[0].From == "" {
 		t.Fatalf("result.json: %v %+v", err, doc)
+	}
+	for _, f := range []string{"effect.json", "studysize.json"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Error(err)
+		}
 	}
 	if dot, err := os.ReadFile(filepath.Join(dir, "network.dot")); err != nil || !strings.Contains(string(dot), "digraph") {
 		t.Fatalf("network.dot: %v", err)

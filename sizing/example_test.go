@@ -1,0 +1,44 @@
+package sizing_test
+
+import (
+	"context"
+	"fmt"
+	"log"
+
+	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/order"
+	"github.com/antecedent-lab/antecedent/simulate"
+	"github.com/antecedent-lab/antecedent/sizing"
+)
+
+// Example asks how many rows find a modest continuous effect with 80%
+// probability, when four unrelated variables compete with it.
+func Example() {
+	m := &simulate.Model{Nodes: []simulate.Node{
+		{Name: "dose"}, {Name: "n1"}, {Name: "n2"}, {Name: "n3"}, {Name: "n4"},
+		{Name: "response", Parents: []string{"dose"}, Weights: []float64{0.3}},
+	}}
+	o := &order.Order{Tiers: [][]string{{"dose", "n1", "n2", "n3", "n4"}, {"response"}}}
+	g, err := sizing.FromModel(m)
+	if err != nil {
+		log.Fatal(err)
+	}
+	p, err := sizing.Run(context.Background(), g, o, &antecedent.Config{Seed: 1},
+		&sizing.Settings{Sizes: []int{50, 100, 200, 400, 800}, Replicates: 40, Seed: 1})
+	if err != nil {
+		log.Fatal(err)
+	}
+	e, _ := p.Edge("dose", "response")
+	for _, r := range e.Found {
+		fmt.Printf("%4d rows: found in %.2f of studies (± %.2f)\n", r.Rows, r.Value, r.SE)
+	}
+	need, _ := p.RowsFor("dose", "response", 0.8)
+	fmt.Printf("80%%: about %d rows (%s between %d and %d)\n", need.Rows, need.Status, need.Below, need.Above)
+	// Output:
+	//   50 rows: found in 0.05 of studies (± 0.03)
+	//  100 rows: found in 0.15 of studies (± 0.06)
+	//  200 rows: found in 0.42 of studies (± 0.08)
+	//  400 rows: found in 0.68 of studies (± 0.07)
+	//  800 rows: found in 0.90 of studies (± 0.05)
+	// 80%: about 588 rows (reached between 400 and 800)
+}
