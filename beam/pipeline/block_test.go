@@ -17,12 +17,12 @@ import (
 // before and the cell's own text after; a shard may hold one level of a
 // text column, or no rows.
 func TestRebuiltTableEqualsReadCSV(t *testing.T) {
-	header := "mixed,sex,flag,x"
+	header := "site,sex,flag,x"
 	shards := [][]string{
-		{"1,F,true,0.5", "2.50,F,false,1"},
+		{"north,F,true,0.5", "south,F,false,1"},
 		{},
-		{"x,F,TRUE,NA", "1.0,F,0,2"},
-		{"2.50,M,1,3", "NA,F,false,4"},
+		{"east,F,TRUE,NA", "north,F,0,2"},
+		{"south,M,1,3", "NA,F,false,4"},
 	}
 	var all []string
 	var blocks []block
@@ -166,5 +166,30 @@ func TestTilesRoundTrip(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestMixedColumnRefused checks that a column of numbers with stray text
+// is refused, as the single-machine reader refuses it, never re-typed.
+func TestMixedColumnRefused(t *testing.T) {
+	header := "age,y"
+	shards := [][]string{{"61,1", "70,0"}, {"12O,1", "55,0"}}
+	var sums []summary
+	for i, rows := range shards {
+		c, err := parseShard(strings.NewReader(header+"\n"+strings.Join(rows, "\n")), "test")
+		if err != nil {
+			t.Fatal(err)
+		}
+		s, err := summarise(i, c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sums = append(sums, s)
+	}
+	if sc := buildSchema(sums); !strings.Contains(sc.Problem, `"age" mixes numbers and text`) {
+		t.Errorf("problem %q", sc.Problem)
+	}
+	if _, err := table.ReadCSV(strings.NewReader(header+"\n61,1\n70,0\n12O,1\n55,0\n"), nil); err == nil {
+		t.Error("the single-machine reader accepted the column")
 	}
 }

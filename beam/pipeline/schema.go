@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"maps"
 	"slices"
+
+	"github.com/antecedent-lab/antecedent/table"
 )
 
 // schema is the table's layout, formed from every shard's summary.
@@ -88,6 +90,14 @@ func buildSchema(sums []summary) schema {
 			}
 		}
 		v.Levels = slices.Sorted(maps.Keys(levels))
+		if numbersAmongText(levels) {
+			// The single-machine reader refuses or asks about a column of
+			// numbers with stray text (table.CSVOptions.AsIs); the
+			// pipeline never re-types a column silently, so it refuses
+			// every mix.
+			sc.Problem = fmt.Sprintf("column %q mixes numbers and text; correct the file (the command line's reader lists the odd cells)", name)
+			return sc
+		}
 		switch {
 		case len(v.Levels) > maxLevels:
 			sc.Problem = fmt.Sprintf("column %q has more than %d distinct text values", name, maxLevels)
@@ -113,4 +123,15 @@ func (sc *schema) shift() []float64 {
 		out = append(out, v.Shift...)
 	}
 	return out
+}
+
+// numbersAmongText reports whether any of a text column's values reads as
+// a number (or true/false).
+func numbersAmongText(levels map[string]bool) bool {
+	for l := range levels {
+		if _, ok, _ := table.ParseCell(l); ok && !table.IsMissingCell(l) {
+			return true
+		}
+	}
+	return false
 }

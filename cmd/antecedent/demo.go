@@ -15,7 +15,7 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	fs := newFlags("demo", "[options]", stderr)
 	var s settings
 	dir := fs.String("out", "antecedent-demo", "folder for result.json, network.dot and report.html (empty: write nothing)")
-	questions := fs.Bool("questions", true, "also ask the network one intervention and one planning question")
+	questions := fs.Bool("questions", false, "also ask the network one intervention and one planning question (about half a minute more)")
 	s.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
@@ -69,6 +69,9 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	}
 	if *questions {
 		return demoQuestions(ctx, res, d, &s, *dir, stdout, stderr)
+	}
+	if !s.quiet {
+		fmt.Fprintln(stdout, "\nAsk the network what an intervention would change and how many rows a study needs: antecedent demo --questions")
 	}
 	return nil
 }

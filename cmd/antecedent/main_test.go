@@ -24,7 +24,7 @@ func TestDemo(t *testing.T) {
 		t.Skip("long")
 	}
 	dir := t.TempDir()
-	out, errs, code := runCLI(t, "demo", "--out", dir, "--report", filepath.Join(dir, "demo.html"))
+	out, errs, code := runCLI(t, "demo", "--out", dir, "--report", filepath.Join(dir, "demo.html"), "--questions")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
