@@ -161,6 +161,7 @@ type effectView struct {
 	Estimate     string
 	Interval     string
 	Odds         string
+	Contrast     string
 	Standardized string
 	Frequency    string
 }
@@ -369,7 +370,7 @@ func edgeTitle(e dag.Edge) string {
 		}
 	}
 	if s := float64(e.Standardized); finite(s) {
-		fmt.Fprintf(&b, "; standardised %.2f", s)
+		fmt.Fprintf(&b, "; strength %.2f (%s)", s, dag.StandardizedMeaning)
 	}
 	if f := float64(e.Frequency); finite(f) {
 		fmt.Fprintf(&b, "; selected in %.0f%% of subsamples", 100*f)
@@ -400,7 +401,7 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 	for _, e := range n.Effects {
 		ev := effectView{Term: e.Term, Parent: e.Parent,
 			Estimate: fmtNum(e.Estimate), Interval: "[" + fmtNum(e.Lower) + ", " + fmtNum(e.Upper) + "]",
-			Standardized: fmtNum(e.Standardized)}
+			Contrast: e.Contrast, Standardized: fmtNum(e.Standardized)}
 		if finite(float64(e.OddsRatio)) {
 			ev.Odds = fmtNum(e.OddsRatio) + " [" + fmtNum(e.OddsLower) + ", " + fmtNum(e.OddsUpper) + "]"
 		}
