@@ -45,11 +45,16 @@ type residualEngine struct {
 	flip  []bool
 	// stale marks predictors whose xv and hxRaw predate the weights.
 	stale []bool
+	// version counts the working weights formed (other than Gaussian).
+	version int
+	cross   crossCache
+	step    activeStep
 
 	nullDev float64
-	tolAbs  float64
-	fresh   bool // h and res reflect the current eta
+	kktTol  float64 // bound on the scaled KKT residuals (see descend)
+	fresh   bool    // h and res reflect the current eta
 	active  []int
+	signs   []int8
 	old     []float64
 	etaOld  []float64
 	dev     float64 // deviance at the current eta, when devOK
@@ -82,6 +87,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		isBin:  make([]bool, p),
 		stale:  make([]bool, p),
 		flip:   make([]bool, p),
+		signs:  make([]int8, p),
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -137,7 +143,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		e.nullDev += w * e.unitDeviance(e.y[t], e.eta[t])
 	}
 	e.nullDev *= e.total
-	e.tolAbs = r.tol * e.nullDev / e.total
+	e.kktTol = r.tol * math.Sqrt(e.nullDev/e.total)
 	if !r.gaussian {
 		e.qw = make([]float64, n)
 		e.etaOld = make([]float64, n)
@@ -257,6 +263,7 @@ func (e *residualEngine) working() {
 		}
 	}
 	if !e.r.gaussian {
+		e.version++
 		// New weights: each predictor's Σ h x̃² is formed again at its
 		// next update.
 		for j, x := range e.excl {
@@ -427,37 +434,36 @@ func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	return e.xv[j], (dq + e.alpha*raw - m*sumR) / s
 }
 
-// update returns Σ h x̃_j² and the value a coordinate update would give
-// coefficient j at penalty lam (its old value when xv ≤ 0).
-func (e *residualEngine) update(lam float64, j int) (xv, nb float64) {
-	xv, g := e.squareGrad(j)
-	if xv <= 0 {
-		return xv, e.beta[j]
-	}
-	l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
-	return xv, soft(g+xv*e.beta[j], l1) / (xv + l2)
-}
-
-func (e *residualEngine) sweep(lam float64, set []int) float64 {
-	var maxd float64
+func (e *residualEngine) sweep(lam float64, set []int) (bound, noise float64) {
+	var moved, size float64 // Σ √h_j·|d_j| and Σ |u_j|/√h_j
 	for _, j := range set {
-		xv, nb := e.update(lam, j)
+		xv, g := e.squareGrad(j)
+		if xv <= 0 {
+			continue
+		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
 		old := e.beta[j]
-		if d := nb - old; d != 0 {
-			e.beta[j] = nb
+		u := g + xv*old
+		root := math.Sqrt(xv)
+		size += math.Abs(u) / root
+		if d := soft(u, l1)/(xv+l2) - old; d != 0 {
+			e.beta[j] = old + d
 			e.shift(j, d)
-			maxd = math.Max(maxd, xv*d*d)
+			moved += root * math.Abs(d)
 		}
 	}
 	if e.r.intercept && !e.r.gaussian && e.sumH > 0 {
-		d := (e.sumQ + e.alpha*e.sumH) / e.sumH
-		if d != 0 {
+		// The intercept is a coordinate of curvature Σh, updated last.
+		sumR := e.sumQ + e.alpha*e.sumH
+		root := math.Sqrt(e.sumH)
+		size += math.Abs(sumR)/root + root*math.Abs(e.b0)
+		if d := sumR / e.sumH; d != 0 {
 			e.b0 += d
 			e.alpha -= d
-			maxd = math.Max(maxd, e.sumH*d*d)
+			moved += root * math.Abs(d)
 		}
 	}
-	return maxd
+	return moved, roundoff * size
 }
 
 func (e *residualEngine) coefficients() []float64 { return e.beta }
@@ -465,7 +471,8 @@ func (e *residualEngine) coefficients() []float64 { return e.beta }
 func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 	if e.r.gaussian {
 		// Residuals stay current through sweep; eta is not needed.
-		return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
+		sweeps, ok, _ := descend(e, lam, set, e.kktTol, false, e.r.maxSweeps, e.active, e.signs)
+		return sweeps, ok
 	}
 	sweeps := 0
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
@@ -474,12 +481,20 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
 		oldDev, oldDevOK := e.dev, e.devOK
-		sw, ok := descend(e, lam, set, e.tolAbs, e.r.maxSweeps-sweeps, e.active)
+		sw, ok, first := descend(e, lam, set, e.kktTol, true, e.r.maxSweeps-sweeps, e.active, e.signs)
 		sweeps += sw
 		step := e.updateEta()
 		e.fresh, e.devOK = false, false
 		if !ok {
 			return sweeps, false
+		}
+		if first <= e.kktTol {
+			// The first sweep at weights formed at the current point
+			// ended the descent. There the working residuals are the
+			// negative gradient of the loss itself, so its bound holds
+			// for the penalised problem, to second order in a step
+			// that small.
+			return sweeps, true
 		}
 		// A full Newton step can overshoot far from the optimum. Steps
 		// that move no linear predictor by more than 1 stay where the
@@ -513,46 +528,28 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 				return sweeps, true
 			}
 		}
-		d := e.sumH * (e.b0 - oldB0) * (e.b0 - oldB0)
-		for _, j := range set {
-			dj := e.beta[j] - e.old[j]
-			d = math.Max(d, e.xv[j]*dj*dj)
-		}
-		if d < e.tolAbs {
-			return sweeps, true
-		}
-		// The step moved the fit. Form the weights at the new point
-		// (with the deviance, which the path records next) and stop if a
-		// sweep from there would move no coordinate beyond tolerance:
-		// from a warm start one Newton step usually lands there, and the
-		// next reweighting would only confirm it.
-		e.wantDev = true
-		e.working()
-		e.wantDev = false
-		if e.settled(lam, set) {
-			return sweeps, true
-		}
 	}
 	return sweeps, false
 }
 
-// settled reports whether a coordinate-descent sweep over set (and the
-// intercept) at the current working weights would change no coordinate by
-// more than the tolerance, the test that ends descend.
-func (e *residualEngine) settled(lam float64, set []int) bool {
-	if e.r.intercept && e.sumH > 0 {
-		d := (e.sumQ + e.alpha*e.sumH) / e.sumH
-		if e.sumH*d*d >= e.tolAbs {
-			return false
-		}
+// residual returns the largest KKT residual of the intercept and of the
+// coordinates of set at the current working weights, each scaled by
+// 1/√h_j (see descend). The weighted squares it forms serve the next
+// sweep.
+func (e *residualEngine) residual(lam float64, set []int) float64 {
+	var worst float64
+	if e.r.intercept && !e.r.gaussian && e.sumH > 0 {
+		worst = math.Abs(e.sumQ+e.alpha*e.sumH) / math.Sqrt(e.sumH)
 	}
 	for _, j := range set {
-		xv, nb := e.update(lam, j)
-		if d := nb - e.beta[j]; xv*d*d >= e.tolAbs {
-			return false
+		xv, g := e.squareGrad(j)
+		if xv <= 0 {
+			continue
 		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		worst = math.Max(worst, kktResidual(g, e.beta[j], l1, l2)/math.Sqrt(xv))
 	}
-	return true
+	return worst
 }
 
 // updateEta sets the linear predictor from the working residuals after a
