@@ -61,7 +61,9 @@
 // is solved by coordinate descent in ResidualMode, until the first sweep at
 // weights formed at the current fit ends within the tolerance: there the
 // working residuals are the gradient of the loss itself, so the bound holds
-// for the fit. Binomial working weights
+// for the fit. Each penalty starts from the fits at the two before,
+// extrapolated linearly in λ when that lowers the objective, which
+// usually saves a reweighting step. Binomial working weights
 // keep fitted probabilities away from 0 and 1; a path whose deviance
 // explained reaches SaturationLimit (perfect separation, for instance) ends
 // early with Status Saturated instead of diverging.

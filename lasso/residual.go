@@ -49,6 +49,7 @@ type residualEngine struct {
 	version int
 	cross   crossCache
 	step    activeStep
+	memory  pathMemory
 
 	nullDev float64
 	kktTol  float64 // bound on the scaled KKT residuals (see descend)
@@ -474,6 +475,16 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 		sweeps, ok, _ := descend(e, lam, set, e.kktTol, false, e.r.maxSweeps, e.active, e.signs)
 		return sweeps, ok
 	}
+	e.predict(lam, set)
+	sweeps, ok := e.reweigh(lam, set)
+	if ok {
+		e.record(lam)
+	}
+	return sweeps, ok
+}
+
+// reweigh solves penalty lam by reweighted least squares.
+func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 	sweeps := 0
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
 		e.working()
