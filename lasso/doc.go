@@ -58,10 +58,10 @@
 // updates a residual vector, costing O(n) per update. Other families are
 // fitted by iteratively reweighted least squares: at each outer step the
 // loss is replaced by its quadratic approximation and that weighted problem
-// is solved by coordinate descent in ResidualMode, until the first sweep at
-// weights formed at the current fit ends within the tolerance: there the
-// working residuals are the gradient of the loss itself, so the bound holds
-// for the fit. Each penalty starts from the fits at the two before,
+// is solved by coordinate descent in ResidualMode, until the KKT residuals
+// at weights formed at the current fit, where the working residuals are
+// the gradient of the loss itself, are within the tolerance (or the first
+// sweep there ends within it). Each penalty starts from the fits at the two before,
 // extrapolated linearly in λ when that lowers the objective, which
 // usually saves a reweighting step. Binomial working weights
 // keep fitted probabilities away from 0 and 1; a path whose deviance

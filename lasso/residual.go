@@ -487,7 +487,19 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 	sweeps := 0
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
+		// The deviance shares the weights' exponentials; the path
+		// records it once the fit is done.
+		e.wantDev = true
 		e.working()
+		e.wantDev = false
+		// At weights formed at the current fit the weighted working
+		// residuals are the negative gradient of the loss itself, so
+		// the KKT residuals of the penalised problem follow exactly, in
+		// one pass over the set whose weighted squares the next sweep
+		// reuses.
+		if e.residual(lam, set) <= e.kktTol {
+			return sweeps, true
+		}
 		copy(e.old, e.beta)
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
