@@ -47,9 +47,14 @@ type residualEngine struct {
 	stale []bool
 	// version counts the working weights formed (other than Gaussian).
 	version int
-	cross   crossCache
-	step    activeStep
-	memory  pathMemory
+	// gval[j] is the gradient of predictor j when gstamp[j] == stamp;
+	// stamp moves on whenever the working residuals change.
+	gval   []float64
+	gstamp []uint64
+	stamp  uint64
+	cross  crossCache
+	step   activeStep
+	memory pathMemory
 
 	nullDev float64
 	kktTol  float64 // bound on the scaled KKT residuals (see descend)
@@ -89,6 +94,9 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		stale:  make([]bool, p),
 		flip:   make([]bool, p),
 		signs:  make([]int8, p),
+		gval:   make([]float64, p),
+		gstamp: make([]uint64, p),
+		stamp:  1,
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -232,6 +240,7 @@ func (e *residualEngine) working() {
 	if e.fresh {
 		return
 	}
+	e.stamp++
 	e.sumH, e.sumQ, e.alpha = 0, 0, 0
 	if e.r.gaussian {
 		copy(e.h, e.omega)
@@ -377,6 +386,7 @@ func (e *residualEngine) shift(j int, d float64) {
 	}
 	e.alpha += f * e.center[j]
 	e.sumQ -= f * e.hxRaw[j]
+	e.stamp++
 }
 
 // dotIndexed returns Σ_t c[rows[t]]·v[t].
@@ -396,10 +406,15 @@ func dotIndexed(c []float64, rows []int, v []float64) float64 {
 
 // squareGrad returns Σ h x̃_j² and the gradient of j, forming the
 // former and Σ h x_j first when the weights changed since they were
-// last formed; both come from one pass over the column.
+// last formed; both come from one pass over the column. The gradient is
+// kept until the working residuals change, so a KKT check followed by a
+// Newton step from the same fit reads each column once.
 func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	if !e.stale[j] {
-		return e.xv[j], e.grad(j)
+		if e.gstamp[j] != e.stamp {
+			e.gval[j], e.gstamp[j] = e.grad(j), e.stamp
+		}
+		return e.xv[j], e.gval[j]
 	}
 	e.stale[j] = false
 	c, m, s := e.cols[j], e.center[j], e.scale[j]
@@ -432,7 +447,8 @@ func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	e.xv[j] = (sq - 2*m*raw + m*m*e.sumH) / (s * s)
 	e.hxRaw[j] = raw
 	sumR := e.sumQ + e.alpha*e.sumH
-	return e.xv[j], (dq + e.alpha*raw - m*sumR) / s
+	e.gval[j], e.gstamp[j] = (dq+e.alpha*raw-m*sumR)/s, e.stamp
+	return e.xv[j], e.gval[j]
 }
 
 func (e *residualEngine) sweep(lam float64, set []int) (bound, noise float64) {
@@ -461,6 +477,7 @@ func (e *residualEngine) sweep(lam float64, set []int) (bound, noise float64) {
 		if d := sumR / e.sumH; d != 0 {
 			e.b0 += d
 			e.alpha -= d
+			e.stamp++
 			moved += root * math.Abs(d)
 		}
 	}

@@ -124,6 +124,7 @@ func (e *residualEngine) newton(lam float64, active []int) (moved, full bool) {
 		d := t * st.dx[k]
 		e.b0 += d
 		e.alpha -= d
+		e.stamp++
 	}
 	return true, hit < 0
 }
