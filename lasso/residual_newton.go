@@ -46,8 +46,9 @@ func (c *crossCache) missing(active []int, v int) int {
 // crossShare is the cost of one multiply-add of the blocked products that
 // form cross-products, as a share of the per-row cost of a coordinate
 // update (a pass for the gradient and one for the residuals): measured at
-// about a quarter on the project's 2-core machine with gonum's pure-Go
-// BLAS, n = 10,000, k = 80.
+// about a quarter for the general product (less for the symmetric one) on
+// the project's 2-core machine with gonum's pure-Go BLAS, n = 10,000,
+// k = 80.
 const crossShare = 0.25
 
 // newtonCost is the cost of a Newton step in sweeps over active: the
