@@ -31,15 +31,39 @@
 // time without changing the answer. Coordinate descent cycles on the active
 // set to convergence, then makes one full sweep over the screened set.
 //
+// Each fit stops on a bound on its distance to the optimum rather than on
+// the size of the last changes, which on collinear data stop shrinking long
+// before the fit is close. The Karush–Kuhn–Tucker residual of coordinate j,
+//
+//	ρ_j = min |g_j − λ(1−a)v_j·b_j − λ·a·v_j·s|  over s in ∂|b_j|,
+//
+// is zero at the optimum, and for an objective of smallest curvature μ the
+// fit is within ‖ρ‖/μ of it. A coordinate update leaves ρ_j = 0 and later
+// updates d_k move g_j by at most √(h_j h_k)·|d_k| (h the curvatures), so a
+// sweep bounds every ρ_j/√h_j by Σ_k √h_k·|d_k| at no extra cost; the fit
+// is accepted when that bound, or the exact residual where the gradient is
+// at hand, is below Tolerance times the response's scale (see
+// Settings.Tolerance). Coordinate descent converges slowly when predictors
+// are collinear, so once the signs of the active coefficients settle the
+// solver takes a Newton step on the active set, which solves the
+// sign-fixed equations of the active-set method of Osborne, Presnell &
+// Turlach (2000, IMA Journal of Numerical Analysis 20:389–403) and lands
+// on the optimum when the signs are right; it stops where a coefficient
+// would cross zero otherwise. A step is taken only when the sweeps it
+// replaces have cost as much as forming it.
+//
 // Gaussian paths run in one of two modes: GramMode works from the weighted
 // cross-products of the variables (see Moments), so after one pass over the
 // data each update costs O(p) whatever the number of rows; ResidualMode
 // updates a residual vector, costing O(n) per update. Other families are
 // fitted by iteratively reweighted least squares: at each outer step the
 // loss is replaced by its quadratic approximation and that weighted problem
-// is solved by coordinate descent in ResidualMode, until a sweep at the new
-// weights would move no coordinate beyond the tolerance; from a warm start
-// that usually takes one step per penalty. Binomial working weights
+// is solved by coordinate descent in ResidualMode, until the KKT residuals
+// at weights formed at the current fit, where the working residuals are
+// the gradient of the loss itself, are within the tolerance (or the first
+// sweep there ends within it). Each penalty starts from the fits at the two before,
+// extrapolated linearly in λ when that lowers the objective, which
+// usually saves a reweighting step. Binomial working weights
 // keep fitted probabilities away from 0 and 1; a path whose deviance
 // explained reaches SaturationLimit (perfect separation, for instance) ends
 // early with Status Saturated instead of diverging.

@@ -27,7 +27,7 @@ func ExampleFit() {
 	fmt.Printf("intercept %.2f, slopes %.2f %.2f %.2f, explained %.3f\n", b0, b[0], b[1], b[2], path.Explained[last])
 	// Output:
 	// 16 penalties, first has 0 non-zero, last has 3
-	// intercept 0.05, slopes 1.98 0.98 0.02, explained 0.999
+	// intercept 0.04, slopes 1.98 0.98 0.02, explained 0.999
 }
 
 func ExampleFit_binomial() {
@@ -63,5 +63,5 @@ func ExampleFitMoments() {
 	_, b := path.Dense(0)
 	fmt.Printf("variable 2 on 0 and 1: %.3f %.3f\n", b[0], b[1])
 	// Output:
-	// variable 2 on 0 and 1: 0.984 -0.047
+	// variable 2 on 0 and 1: 0.985 -0.047
 }

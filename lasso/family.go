@@ -36,7 +36,10 @@ type Family interface {
 	// Working returns the working weight h > 0 and the working residual
 	// z − eta of the quadratic approximation of the loss at eta. For a
 	// canonical link, h is the second derivative of ½·Deviance with
-	// respect to eta and −h·(z−eta) its first derivative.
+	// respect to eta and −h·(z−eta) its first derivative. The solver
+	// takes −h·(z−eta) as that first derivative when it checks a fit's
+	// optimality; the Fisher-scoring weight and residual of a
+	// generalised linear model satisfy this for any link.
 	Working(y, eta float64) (weight, residual float64)
 
 	// Deviance returns the unit deviance of response y at mean mu,

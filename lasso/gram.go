@@ -22,18 +22,21 @@ type gramEngine struct {
 	excl   []bool
 	c      []float64
 	diag   []float64
+	root   []float64 // √diag
 	cols   [][]float64
 	g      []float64
 	beta   []float64
 	ymean  float64
 	vyy    float64
-	tolAbs float64
+	kktTol float64
 	active []int
+	signs  []int8
 	// The gradient g is kept current only for the screened set; others
 	// are recomputed from the active columns when needed.
 	inSet   []bool
 	set     []int
 	scratch []float64
+	step    activeStep
 }
 
 func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved) (*gramEngine, error) {
@@ -45,10 +48,12 @@ func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved
 		excl:   make([]bool, p),
 		c:      make([]float64, p),
 		diag:   make([]float64, p),
+		root:   make([]float64, p),
 		cols:   make([][]float64, p),
 		g:      make([]float64, p),
 		beta:   make([]float64, p),
 		inSet:  make([]bool, p),
+		signs:  make([]int8, p),
 	}
 	e.vyy = e.moment(resp, resp)
 	if r.intercept {
@@ -74,10 +79,11 @@ func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved
 			e.scale[j] = math.Sqrt(vj)
 		}
 		e.diag[j] = vj / (e.scale[j] * e.scale[j])
+		e.root[j] = math.Sqrt(e.diag[j])
 		e.c[j] = e.moment(k, resp) / e.scale[j]
 	}
 	copy(e.g, e.c)
-	e.tolAbs = r.tol * e.vyy
+	e.kktTol = r.tol * math.Sqrt(e.vyy)
 	return e, nil
 }
 
@@ -109,8 +115,8 @@ func (e *gramEngine) column(j int) []float64 {
 	return col
 }
 
-func (e *gramEngine) sweep(lam float64, set []int) float64 {
-	var maxd float64
+func (e *gramEngine) sweep(lam float64, set []int) (bound, noise float64) {
+	var moved, size float64 // Σ √h_j·|d_j| and Σ |u_j|/√h_j
 	for _, j := range set {
 		xv := e.diag[j]
 		if xv <= 0 {
@@ -119,24 +125,90 @@ func (e *gramEngine) sweep(lam float64, set []int) float64 {
 		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
 		old := e.beta[j]
 		u := e.g[j] + xv*old
-		nb := soft(u, l1) / (xv + l2)
-		if d := nb - old; d != 0 {
-			e.beta[j] = nb
-			col := e.column(j)
-			if 4*len(e.set) > len(col) {
-				// Updating every entry runs as one vector operation;
-				// entries outside the set are recomputed before use.
-				floats.AddScaled(e.g, -d, col)
-			} else {
-				g := e.g[:len(col)]
-				for _, i := range e.set {
-					g[i] -= col[i] * d
-				}
-			}
-			maxd = math.Max(maxd, xv*d*d)
+		size += math.Abs(u) / e.root[j]
+		if d := soft(u, l1)/(xv+l2) - old; d != 0 {
+			e.move(j, d)
+			moved += e.root[j] * math.Abs(d)
 		}
 	}
-	return maxd
+	noise = roundoff * size
+	if moved <= e.kktTol || moved <= noise {
+		return moved, noise
+	}
+	// The gradient of the set is current: the exact residual costs one
+	// pass over the set, little beside the sweep.
+	return math.Min(moved, e.residual(lam, set)), noise
+}
+
+// newtonCost is the cost of a Newton step in sweeps over active: a
+// factorisation of k³/3 against k updates of p entries.
+func (e *gramEngine) newtonCost(active []int) float64 {
+	k := float64(len(active))
+	return 1 + k*k/(3*float64(len(e.pred)))
+}
+
+// newton takes a Newton step on active (see newtoner); the columns of G
+// it needs are formed, as the coefficients have moved.
+func (e *gramEngine) newton(lam float64, active []int) (moved, full bool) {
+	k := len(active)
+	if k == 0 {
+		return false, false
+	}
+	st := &e.step
+	st.reset(k)
+	for a, j := range active {
+		col := e.column(j)
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		for b, i := range active {
+			st.h[a*k+b] = col[i]
+		}
+		st.h[a*k+a] += l2
+		st.r[a] = newtonRHS(e.g[j], e.beta[j], l1, l2)
+	}
+	if !st.solve() {
+		return false, false
+	}
+	t, hit := st.fraction(e.beta, active)
+	for a, j := range active {
+		d := t * st.dx[a]
+		if a == hit {
+			d = -e.beta[j]
+		}
+		if d != 0 {
+			e.move(j, d)
+		}
+	}
+	return true, hit < 0
+}
+
+// move adds d to coefficient j and updates the kept gradient.
+func (e *gramEngine) move(j int, d float64) {
+	e.beta[j] += d
+	col := e.column(j)
+	if 4*len(e.set) > len(col) {
+		// Updating every entry runs as one vector operation; entries
+		// outside the set are recomputed before use.
+		floats.AddScaled(e.g, -d, col)
+		return
+	}
+	g := e.g[:len(col)]
+	for _, i := range e.set {
+		g[i] -= col[i] * d
+	}
+}
+
+// residual returns the largest KKT residual over set, each scaled by
+// 1/√h_j, from the kept gradient.
+func (e *gramEngine) residual(lam float64, set []int) float64 {
+	var worst float64
+	for _, j := range set {
+		if e.diag[j] <= 0 {
+			continue
+		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		worst = math.Max(worst, kktResidual(e.g[j], e.beta[j], l1, l2)/e.root[j])
+	}
+	return worst
 }
 
 func (e *gramEngine) coefficients() []float64 { return e.beta }
@@ -149,7 +221,8 @@ func (e *gramEngine) solve(lam float64, set []int) (int, bool) {
 		}
 	}
 	e.set = set
-	return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
+	sweeps, ok, _ := descend(e, lam, set, e.kktTol, false, e.r.maxSweeps, e.active, e.signs)
+	return sweeps, ok
 }
 
 // fresh returns c_j − Σ_k G_jk β_k over the non-zero β_k, whose columns

@@ -65,7 +65,8 @@ type Path struct {
 	Deviance []float64
 	// NonZero holds the number of non-zero coefficients.
 	NonZero []int
-	// Sweeps holds the coordinate-descent sweeps used at each penalty.
+	// Sweeps holds the coordinate-descent sweeps used at each penalty
+	// (Newton steps on the active set are not counted).
 	Sweeps []int
 	// NullDeviance is the deviance of the intercept-only model (of the
 	// zero linear predictor when there is no intercept).

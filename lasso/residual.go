@@ -45,11 +45,22 @@ type residualEngine struct {
 	flip  []bool
 	// stale marks predictors whose xv and hxRaw predate the weights.
 	stale []bool
+	// version counts the working weights formed (other than Gaussian).
+	version int
+	// gval[j] is the gradient of predictor j when gstamp[j] == stamp;
+	// stamp moves on whenever the working residuals change.
+	gval   []float64
+	gstamp []uint64
+	stamp  uint64
+	cross  crossCache
+	step   activeStep
+	memory pathMemory
 
 	nullDev float64
-	tolAbs  float64
-	fresh   bool // h and res reflect the current eta
+	kktTol  float64 // bound on the scaled KKT residuals (see descend)
+	fresh   bool    // h and res reflect the current eta
 	active  []int
+	signs   []int8
 	old     []float64
 	etaOld  []float64
 	dev     float64 // deviance at the current eta, when devOK
@@ -82,6 +93,10 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		isBin:  make([]bool, p),
 		stale:  make([]bool, p),
 		flip:   make([]bool, p),
+		signs:  make([]int8, p),
+		gval:   make([]float64, p),
+		gstamp: make([]uint64, p),
+		stamp:  1,
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -137,7 +152,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		e.nullDev += w * e.unitDeviance(e.y[t], e.eta[t])
 	}
 	e.nullDev *= e.total
-	e.tolAbs = r.tol * e.nullDev / e.total
+	e.kktTol = r.tol * math.Sqrt(e.nullDev/e.total)
 	if !r.gaussian {
 		e.qw = make([]float64, n)
 		e.etaOld = make([]float64, n)
@@ -225,6 +240,7 @@ func (e *residualEngine) working() {
 	if e.fresh {
 		return
 	}
+	e.stamp++
 	e.sumH, e.sumQ, e.alpha = 0, 0, 0
 	if e.r.gaussian {
 		copy(e.h, e.omega)
@@ -257,6 +273,7 @@ func (e *residualEngine) working() {
 		}
 	}
 	if !e.r.gaussian {
+		e.version++
 		// New weights: each predictor's Σ h x̃² is formed again at its
 		// next update.
 		for j, x := range e.excl {
@@ -369,6 +386,7 @@ func (e *residualEngine) shift(j int, d float64) {
 	}
 	e.alpha += f * e.center[j]
 	e.sumQ -= f * e.hxRaw[j]
+	e.stamp++
 }
 
 // dotIndexed returns Σ_t c[rows[t]]·v[t].
@@ -388,10 +406,15 @@ func dotIndexed(c []float64, rows []int, v []float64) float64 {
 
 // squareGrad returns Σ h x̃_j² and the gradient of j, forming the
 // former and Σ h x_j first when the weights changed since they were
-// last formed; both come from one pass over the column.
+// last formed; both come from one pass over the column. The gradient is
+// kept until the working residuals change, so a KKT check followed by a
+// Newton step from the same fit reads each column once.
 func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	if !e.stale[j] {
-		return e.xv[j], e.grad(j)
+		if e.gstamp[j] != e.stamp {
+			e.gval[j], e.gstamp[j] = e.grad(j), e.stamp
+		}
+		return e.xv[j], e.gval[j]
 	}
 	e.stale[j] = false
 	c, m, s := e.cols[j], e.center[j], e.scale[j]
@@ -424,40 +447,41 @@ func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	e.xv[j] = (sq - 2*m*raw + m*m*e.sumH) / (s * s)
 	e.hxRaw[j] = raw
 	sumR := e.sumQ + e.alpha*e.sumH
-	return e.xv[j], (dq + e.alpha*raw - m*sumR) / s
+	e.gval[j], e.gstamp[j] = (dq+e.alpha*raw-m*sumR)/s, e.stamp
+	return e.xv[j], e.gval[j]
 }
 
-// update returns Σ h x̃_j² and the value a coordinate update would give
-// coefficient j at penalty lam (its old value when xv ≤ 0).
-func (e *residualEngine) update(lam float64, j int) (xv, nb float64) {
-	xv, g := e.squareGrad(j)
-	if xv <= 0 {
-		return xv, e.beta[j]
-	}
-	l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
-	return xv, soft(g+xv*e.beta[j], l1) / (xv + l2)
-}
-
-func (e *residualEngine) sweep(lam float64, set []int) float64 {
-	var maxd float64
+func (e *residualEngine) sweep(lam float64, set []int) (bound, noise float64) {
+	var moved, size float64 // Σ √h_j·|d_j| and Σ |u_j|/√h_j
 	for _, j := range set {
-		xv, nb := e.update(lam, j)
+		xv, g := e.squareGrad(j)
+		if xv <= 0 {
+			continue
+		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
 		old := e.beta[j]
-		if d := nb - old; d != 0 {
-			e.beta[j] = nb
+		u := g + xv*old
+		root := math.Sqrt(xv)
+		size += math.Abs(u) / root
+		if d := soft(u, l1)/(xv+l2) - old; d != 0 {
+			e.beta[j] = old + d
 			e.shift(j, d)
-			maxd = math.Max(maxd, xv*d*d)
+			moved += root * math.Abs(d)
 		}
 	}
 	if e.r.intercept && !e.r.gaussian && e.sumH > 0 {
-		d := (e.sumQ + e.alpha*e.sumH) / e.sumH
-		if d != 0 {
+		// The intercept is a coordinate of curvature Σh, updated last.
+		sumR := e.sumQ + e.alpha*e.sumH
+		root := math.Sqrt(e.sumH)
+		size += math.Abs(sumR)/root + root*math.Abs(e.b0)
+		if d := sumR / e.sumH; d != 0 {
 			e.b0 += d
 			e.alpha -= d
-			maxd = math.Max(maxd, e.sumH*d*d)
+			e.stamp++
+			moved += root * math.Abs(d)
 		}
 	}
-	return maxd
+	return moved, roundoff * size
 }
 
 func (e *residualEngine) coefficients() []float64 { return e.beta }
@@ -465,21 +489,52 @@ func (e *residualEngine) coefficients() []float64 { return e.beta }
 func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 	if e.r.gaussian {
 		// Residuals stay current through sweep; eta is not needed.
-		return descend(e, lam, set, e.tolAbs, e.r.maxSweeps, e.active)
+		sweeps, ok, _ := descend(e, lam, set, e.kktTol, false, e.r.maxSweeps, e.active, e.signs)
+		return sweeps, ok
 	}
+	e.predict(lam, set)
+	sweeps, ok := e.reweigh(lam, set)
+	if ok {
+		e.record(lam)
+	}
+	return sweeps, ok
+}
+
+// reweigh solves penalty lam by reweighted least squares.
+func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 	sweeps := 0
 	for outer := 0; outer < e.r.maxReweigh; outer++ {
+		// The deviance shares the weights' exponentials; the path
+		// records it once the fit is done.
+		e.wantDev = true
 		e.working()
+		e.wantDev = false
+		// At weights formed at the current fit the weighted working
+		// residuals are the negative gradient of the loss itself, so
+		// the KKT residuals of the penalised problem follow exactly, in
+		// one pass over the set whose weighted squares the next sweep
+		// reuses.
+		if e.residual(lam, set) <= e.kktTol {
+			return sweeps, true
+		}
 		copy(e.old, e.beta)
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
 		oldDev, oldDevOK := e.dev, e.devOK
-		sw, ok := descend(e, lam, set, e.tolAbs, e.r.maxSweeps-sweeps, e.active)
+		sw, ok, first := descend(e, lam, set, e.kktTol, true, e.r.maxSweeps-sweeps, e.active, e.signs)
 		sweeps += sw
 		step := e.updateEta()
 		e.fresh, e.devOK = false, false
 		if !ok {
 			return sweeps, false
+		}
+		if first <= e.kktTol {
+			// The first sweep at weights formed at the current point
+			// ended the descent. There the working residuals are the
+			// negative gradient of the loss itself, so its bound holds
+			// for the penalised problem, to second order in a step
+			// that small.
+			return sweeps, true
 		}
 		// A full Newton step can overshoot far from the optimum. Steps
 		// that move no linear predictor by more than 1 stay where the
@@ -513,46 +568,28 @@ func (e *residualEngine) solve(lam float64, set []int) (int, bool) {
 				return sweeps, true
 			}
 		}
-		d := e.sumH * (e.b0 - oldB0) * (e.b0 - oldB0)
-		for _, j := range set {
-			dj := e.beta[j] - e.old[j]
-			d = math.Max(d, e.xv[j]*dj*dj)
-		}
-		if d < e.tolAbs {
-			return sweeps, true
-		}
-		// The step moved the fit. Form the weights at the new point
-		// (with the deviance, which the path records next) and stop if a
-		// sweep from there would move no coordinate beyond tolerance:
-		// from a warm start one Newton step usually lands there, and the
-		// next reweighting would only confirm it.
-		e.wantDev = true
-		e.working()
-		e.wantDev = false
-		if e.settled(lam, set) {
-			return sweeps, true
-		}
 	}
 	return sweeps, false
 }
 
-// settled reports whether a coordinate-descent sweep over set (and the
-// intercept) at the current working weights would change no coordinate by
-// more than the tolerance, the test that ends descend.
-func (e *residualEngine) settled(lam float64, set []int) bool {
-	if e.r.intercept && e.sumH > 0 {
-		d := (e.sumQ + e.alpha*e.sumH) / e.sumH
-		if e.sumH*d*d >= e.tolAbs {
-			return false
-		}
+// residual returns the largest KKT residual of the intercept and of the
+// coordinates of set at the current working weights, each scaled by
+// 1/√h_j (see descend). The weighted squares it forms serve the next
+// sweep.
+func (e *residualEngine) residual(lam float64, set []int) float64 {
+	var worst float64
+	if e.r.intercept && !e.r.gaussian && e.sumH > 0 {
+		worst = math.Abs(e.sumQ+e.alpha*e.sumH) / math.Sqrt(e.sumH)
 	}
 	for _, j := range set {
-		xv, nb := e.update(lam, j)
-		if d := nb - e.beta[j]; xv*d*d >= e.tolAbs {
-			return false
+		xv, g := e.squareGrad(j)
+		if xv <= 0 {
+			continue
 		}
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		worst = math.Max(worst, kktResidual(g, e.beta[j], l1, l2)/math.Sqrt(xv))
 	}
-	return true
+	return worst
 }
 
 // updateEta sets the linear predictor from the working residuals after a

@@ -72,9 +72,19 @@ type Settings struct {
 	// outnumber the predictors and 1e-2 otherwise.
 	FloorRatio float64 `json:"floor_ratio,omitempty"`
 
-	// Tolerance is the convergence threshold: iteration stops when the
-	// largest weighted squared coefficient change of a sweep falls below
-	// Tolerance times the null deviance per unit weight. Zero means 1e-7.
+	// Tolerance sets how close each fit is to the optimum. Iteration at
+	// a penalty stops when the Karush–Kuhn–Tucker residual of every
+	// coordinate (the distance from zero to the subdifferential of the
+	// objective along it, divided by the square root of its curvature,
+	// on the standardised scale) is at most Tolerance times the square
+	// root of the null deviance per unit weight, which for the Gaussian
+	// family is the response's standard deviation; or when it is at the
+	// level of rounding. The distance from the fit to the optimum is at
+	// most about the residuals' norm over the smallest curvature of the
+	// objective, so collinear predictors need a tight tolerance; Newton
+	// steps on the active set make one cheap. For families other than
+	// Gaussian the residual is that of the loss itself, not of a
+	// reweighting step's quadratic model. Zero means 1e-7.
 	Tolerance float64 `json:"tolerance,omitempty"`
 
 	// MaxSweeps bounds the coordinate-descent sweeps spent on one

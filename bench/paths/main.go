@@ -4,6 +4,7 @@
 //
 //	go run ./bench/paths                    # every case, best of 3 runs each
 //	go run ./bench/paths -cases gaussian-gram-10k -repeats 1
+//	go run ./bench/paths -skip-python       # antecedent's side only
 //
 // It needs Debian's python3-sklearn (run as /usr/bin/python3). Data are
 // generated here with a fixed seed and passed to Python as raw float64
@@ -58,6 +59,7 @@ func main() {
 	repeats := flag.Int("repeats", 3, "runs per side; the best is kept")
 	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
 	slow := flag.Bool("slow", false, "also run the cases where scikit-learn takes tens of minutes")
+	skipPython := flag.Bool("skip-python", false, "time antecedent only (to compare versions of it)")
 	flag.Parse()
 	_, file, _, _ := runtime.Caller(0)
 	script := filepath.Join(filepath.Dir(file), "..", "paths_reference.py")
@@ -77,7 +79,11 @@ func main() {
 		if c.slow && !*slow && *only == "" {
 			continue
 		}
-		row, err := run(c, dir, script, *python, *repeats)
+		py := *python
+		if *skipPython {
+			py = ""
+		}
+		row, err := run(c, dir, script, py, *repeats)
 		if err != nil {
 			log.Fatalf("%s: %v", c.name, err)
 		}
@@ -140,6 +146,7 @@ func best(repeats int, f func() error) (float64, error) {
 	return b, nil
 }
 
+// run times case c on both sides; an empty python skips scikit-learn's.
 func run(c benchCase, dir, script, python string, repeats int) (string, error) {
 	x, y := generate(c.n, c.p, c.binomial)
 	d := lasso.Data{Columns: x, Response: y}
@@ -206,6 +213,9 @@ func run(c benchCase, dir, script, python string, repeats int) (string, error) {
 			return fmt.Sprintf("chosen penalty %.4g vs %.4g (%d grid steps apart)", res.Penalty(), a,
 				int(math.Round(math.Abs(math.Log(res.Penalty()/a))/math.Log(res.Full.Penalties[0]/res.Full.Penalties[1]))))
 		}
+	}
+	if python == "" {
+		return fmt.Sprintf("| %s | %d | %d | %.3f | – | – | – |", c.name, c.n, c.p, ours), nil
 	}
 	if err := writeFloats(spec["x"].(string), x...); err != nil {
 		return "", err
