@@ -11,10 +11,13 @@ import (
 	"github.com/antecedent-lab/antecedent/table"
 )
 
-// TestNotEstimableEffects checks that a parent level with too few rows, or
-// one that separates a binary child (every exposed row has the outcome),
-// is reported as not estimable, with its reason and no number, instead of
-// an odds ratio in the millions; the other parent keeps its estimate.
+// TestNotEstimableEffects checks that a parent that separates a binary
+// child (every exposed row has the outcome) is reported as not estimable,
+// with its reason and no number, instead of an odds ratio in the millions,
+// while the other parent keeps its estimate; and that when the separating
+// parent is required (unpenalised), so that no penalised path exists, the
+// node is left unfitted with a warning rather than failing the run. Levels
+// with too few rows are checked in internal/refit.
 func TestNotEstimableEffects(t *testing.T) {
 	n := 2000
 	age, exposed, rare, outcome := make([]float64, n), make([]float64, n), make([]float64, n), make([]float64, n)
@@ -35,13 +38,16 @@ func TestNotEstimableEffects(t *testing.T) {
 		t.Fatal(err)
 	}
 	o := &order.Order{Tiers: [][]string{{"age", "exposed", "rare"}, {"outcome"}},
-		Required: []order.Edge{{From: "exposed", To: "outcome"}, {From: "rare", To: "outcome"}, {From: "age", To: "outcome"}}}
+		Required: []order.Edge{{From: "age", To: "outcome"}}}
 	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
 	node, _ := res.Node("outcome")
-	want := map[string]string{"exposed": "separation", "rare": "only 4 rows with it", "age": ""}
+	want := map[string]string{"exposed": "separation", "age": ""}
+	if len(node.Effects) != 2 {
+		t.Fatalf("effects %+v", node.Effects)
+	}
 	for _, e := range node.Effects {
 		w := want[e.Parent]
 		if !strings.Contains(e.NotEstimable, w) || (w == "") != (e.NotEstimable == "") {
@@ -52,7 +58,15 @@ func TestNotEstimableEffects(t *testing.T) {
 		}
 	}
 	joined := strings.Join(res.Warnings, "\n")
-	if !strings.Contains(joined, "effect of exposed not estimable") || !strings.Contains(joined, "effect of rare not estimable") {
+	if !strings.Contains(joined, "effect of exposed not estimable") {
 		t.Errorf("warnings %q", res.Warnings)
+	}
+	o.Required = append(o.Required, order.Edge{From: "exposed", To: "outcome"})
+	res, err = antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 1})
+	if err != nil {
+		t.Fatalf("a required separating parent failed the run: %v", err)
+	}
+	if node, _ := res.Node("outcome"); node.Fitted || !strings.Contains(strings.Join(node.Warnings, " "), "separates") {
+		t.Errorf("fitted %v, warnings %q", node.Fitted, node.Warnings)
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"math"
 	"slices"
 
+	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/internal/refit"
 	"github.com/antecedent-lab/antecedent/internal/stability"
 	"github.com/antecedent-lab/antecedent/lasso"
@@ -217,6 +218,8 @@ func (r *run) unfitted(p *nodePlan, err error) (nodeFit, error) {
 	n := r.newNode(p)
 	var few *tooFewRows
 	switch {
+	case errors.Is(err, cv.ErrNoFit):
+		n.Warnings = append(n.Warnings, fmt.Sprintf("not fitted: %v (an unpenalised parent that separates the outcome does this; make the edge penalised)", err))
 	case errors.As(err, &few):
 		n.Warnings = append(n.Warnings, fmt.Sprintf("only %d usable rows, too few for %d-fold cross-validation; not fitted", few.rows, few.folds))
 	case errors.Is(err, lasso.ErrConstantResponse):

@@ -13,4 +13,8 @@ var (
 	ErrMeasure = errors.New("cv: measure does not suit the family")
 	// ErrLength is returned when fold ids and data disagree in length.
 	ErrLength = errors.New("cv: mismatched lengths")
+	// ErrNoFit is returned when the full-data path or a fold's path ends
+	// before its first penalty (for example an unpenalised predictor that
+	// separates a binary response, whose coefficient never converges).
+	ErrNoFit = errors.New("cv: no penalty fitted")
 )

@@ -153,7 +153,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		return nil, err
 	}
 	if full.Len() == 0 {
-		return nil, fmt.Errorf("cv: the full-data path fitted no penalty (%v)", full.Status)
+		return nil, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Status)
 	}
 	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K), FoldPaths: make([]*lasso.Path, folds.K),
 		rows: make([][]rowSums, folds.K)}
@@ -168,7 +168,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 			return fmt.Errorf("cv: fold %d: %w", f, err)
 		}
 		if path.Len() == 0 {
-			return fmt.Errorf("cv: fold %d fitted no penalty (%v)", f, path.Status)
+			return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
 		}
 		held := splits[f].held
 		y := make([]float64, len(held))

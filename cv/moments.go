@@ -43,7 +43,7 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 		return nil, err
 	}
 	if full.Len() == 0 {
-		return nil, fmt.Errorf("cv: the full-data path fitted no penalty (%v)", full.Status)
+		return nil, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Status)
 	}
 	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, len(held))}
 	grid := full.Penalties
@@ -58,7 +58,7 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 			return fmt.Errorf("cv: fold %d: %w", f, err)
 		}
 		if path.Len() == 0 {
-			return fmt.Errorf("cv: fold %d fitted no penalty (%v)", f, path.Status)
+			return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
 		}
 		vals := make([]float64, len(grid))
 		b := make([]float64, len(predictors))
