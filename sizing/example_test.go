@@ -35,10 +35,10 @@ func Example() {
 	need, _ := p.RowsFor("dose", "response", 0.8)
 	fmt.Printf("80%%: about %d rows (%s between %d and %d)\n", need.Rows, need.Status, need.Below, need.Above)
 	// Output:
-	//   50 rows: found in 0.05 of studies (± 0.03)
-	//  100 rows: found in 0.15 of studies (± 0.06)
-	//  200 rows: found in 0.42 of studies (± 0.08)
-	//  400 rows: found in 0.68 of studies (± 0.07)
-	//  800 rows: found in 0.90 of studies (± 0.05)
-	// 80%: about 588 rows (reached between 400 and 800)
+	//   50 rows: found in 0.20 of studies (± 0.06)
+	//  100 rows: found in 0.25 of studies (± 0.07)
+	//  200 rows: found in 0.47 of studies (± 0.08)
+	//  400 rows: found in 0.70 of studies (± 0.07)
+	//  800 rows: found in 0.95 of studies (± 0.03)
+	// 80%: about 528 rows (reached between 400 and 800)
 }
