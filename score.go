@@ -15,9 +15,9 @@ import (
 // cvOut is a node's cross-validated path with what produced it.
 type cvOut struct {
 	res   *cv.Result
-	rows  []int // rows used (nil: every row)
-	cols  []int // design columns of the predictors
-	owner []int // variable of each design column
+	rows  []int     // rows used (nil: every row)
+	cols  []int     // design columns of the predictors
+	owner []int     // variable of each design column
 	scale []float64 // penalty factor of each design column
 	folds *cv.Folds
 	oof   *foldScores

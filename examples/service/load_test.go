@@ -140,7 +140,7 @@ func rowsOf(data []byte, n int) []byte {
 var loadLimits = Limits{
 	MaxBytes: 256 << 10, MaxTime: 30 * time.Second, MaxEstimate: time.Hour, Workers: 1, Folds: 3,
 	MaxRunning: 2, MaxWaiting: 10, RetryAfter: time.Second,
-	MaxMemory:         Estimate(1200, 18, Limits{Workers: 1, Folds: 3}).Bytes,
+	MaxMemory: Estimate(1200, 18, Limits{Workers: 1, Folds: 3}).Bytes,
 	// Read timeouts leave room for valid uploads on a busy machine and stay
 	// well under the slow clients' own 20-second limit.
 	ReadHeaderTimeout: 2 * time.Second, ReadTimeout: 10 * time.Second,
