@@ -541,13 +541,13 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	}
 	switch n.Rule {
 	case cv.OneStandardError:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds. One-SE rule: the strongest penalty within one standard error of the best (open circle), shown by the level line.",
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. One-SE rule: the strongest penalty within one standard error of the best (open circle), shown by the level line.",
 			measureName(n.Measure), better)
 	case cv.MinimumLoss:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds. Minimum rule: the penalty with the best held-out %s.",
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. Minimum rule: the penalty with the best held-out %s.",
 			measureName(n.Measure), better, measureName(n.Measure))
 	default:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error across folds.", measureName(n.Measure), better)
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss.", measureName(n.Measure), better)
 	}
 	if chosen < 0 {
 		return c
