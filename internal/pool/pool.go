@@ -5,6 +5,7 @@ package pool
 
 import (
 	"context"
+	"errors"
 	"runtime"
 	"sync"
 	"sync/atomic"
@@ -20,14 +21,16 @@ func Workers(n int) int {
 
 // Run calls task(ctx, i) for i in [0, n) on at most workers goroutines (0
 // means GOMAXPROCS). It stops handing out tasks at the first error or when
-// ctx is cancelled, waits for running tasks to return, and returns the
-// error of the lowest-numbered failed task, or ctx.Err(). It leaks no
-// goroutine.
+// ctx is cancelled, waits for running tasks to return, and returns ctx's
+// error when the caller's context ended, otherwise the error of the
+// lowest-numbered failed task that did not merely see the cancellation
+// the first failure caused. It leaks no goroutine.
 func Run(ctx context.Context, workers, n int, task func(ctx context.Context, i int) error) error {
 	if err := ctx.Err(); err != nil {
 		return err
 	}
 	w := min(Workers(workers), n)
+	parent := ctx
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
 	errs := make([]error, n)
@@ -53,10 +56,24 @@ func Run(ctx context.Context, workers, n int, task func(ctx context.Context, i i
 		}()
 	}
 	wg.Wait()
+	// A task that failed because another task's failure cancelled the
+	// shared context reports that cancellation; the cause is the error to
+	// return, unless the caller's own context ended.
+	if err := parent.Err(); err != nil {
+		return err
+	}
+	var first error
 	for _, err := range errs {
-		if err != nil {
+		switch {
+		case err == nil:
+		case !errors.Is(err, context.Canceled) && !errors.Is(err, context.DeadlineExceeded):
 			return err
+		case first == nil:
+			first = err
 		}
+	}
+	if first != nil {
+		return first
 	}
 	return ctx.Err()
 }

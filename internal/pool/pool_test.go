@@ -72,3 +72,22 @@ func TestRunCancel(t *testing.T) {
 		t.Errorf("%d goroutines before, %d after", before, n)
 	}
 }
+
+// TestRunReportsTheCause checks that when one task fails and the others
+// stop because the failure cancelled their context, Run returns the
+// failure, not the cancellation a lower-numbered task saw.
+func TestRunReportsTheCause(t *testing.T) {
+	cause := errors.New("bad order")
+	for range 20 {
+		err := Run(context.Background(), 2, 2, func(ctx context.Context, i int) error {
+			if i == 1 {
+				return cause
+			}
+			<-ctx.Done()
+			return ctx.Err()
+		})
+		if !errors.Is(err, cause) {
+			t.Fatalf("error %v, want %v", err, cause)
+		}
+	}
+}
