@@ -19,6 +19,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"runtime/debug"
+	"slices"
 )
 
 // usageError marks errors in how the command was called (exit status 2).
@@ -49,17 +51,30 @@ func main() {
 }
 
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	if len(args) == 0 || args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
-		if len(args) > 1 {
-			args = []string{args[1], "-h"}
-		} else {
+	if len(args) == 0 {
+		usage(stderr)
+		return 2
+	}
+	if args[0] == "help" || args[0] == "-h" || args[0] == "--help" {
+		if len(args) == 1 {
 			usage(stdout)
 			return 0
 		}
+		args = []string{args[1], "-h"}
+	}
+	if args[0] == "version" || args[0] == "--version" {
+		fmt.Fprintln(stdout, version())
+		return 0
 	}
 	for _, c := range commands {
 		if c.name == args[0] {
-			err := c.run(ctx, args[1:], stdout, stderr)
+			// Help asked for goes to standard output; usage after a
+			// mistake goes to standard error.
+			out := stderr
+			if slices.ContainsFunc(args[1:], func(a string) bool { return a == "-h" || a == "--help" || a == "-help" }) {
+				out = stdout
+			}
+			err := c.run(ctx, args[1:], stdout, out)
 			switch {
 			case err == nil:
 				return 0
@@ -88,6 +103,7 @@ func usage(w io.Writer) {
 	for _, c := range commands {
 		fmt.Fprintf(w, "  %-9s %s\n", c.name, c.summary)
 	}
+	fmt.Fprintf(w, "  %-9s %s\n", "version", "print the version of the tool and the commit it was built from")
 	fmt.Fprintln(w, "\nRun \"antecedent help COMMAND\" for a command's options.")
 	fmt.Fprintln(w, "\nResults are hypotheses from observational data; see the README's cautions.")
 }
@@ -109,10 +125,54 @@ func newFlags(name, synopsis string, stderr io.Writer) *flag.FlagSet {
 	fs := flag.NewFlagSet(name, flag.ContinueOnError)
 	fs.SetOutput(stderr)
 	fs.Usage = func() {
-		fmt.Fprintf(stderr, "Usage: antecedent %s %s\n\nOptions:\n", name, synopsis)
-		fs.PrintDefaults()
+		w := fs.Output()
+		fmt.Fprintf(w, "Usage: antecedent %s %s\n\nOptions:\n", name, synopsis)
+		printOptions(w, fs)
 	}
 	return fs
+}
+
+// printOptions lists a flag set's options with two dashes, as the README
+// writes them.
+func printOptions(w io.Writer, fs *flag.FlagSet) {
+	fs.VisitAll(func(f *flag.Flag) {
+		kind, usage := flag.UnquoteUsage(f)
+		line := "  --" + f.Name
+		if kind != "" {
+			line += " " + kind
+		}
+		fmt.Fprintf(w, "%s\n    \t%s", line, usage)
+		if f.DefValue != "" && f.DefValue != "false" && f.DefValue != "0" {
+			fmt.Fprintf(w, " (default %s)", f.DefValue)
+		}
+		fmt.Fprintln(w)
+	})
+}
+
+// version returns the module version and, when built from a checkout, the
+// commit and whether the tree had changes.
+func version() string {
+	v := "antecedent (unknown version)"
+	info, ok := debug.ReadBuildInfo()
+	if !ok {
+		return v
+	}
+	v = "antecedent " + info.Main.Version
+	var rev, modified string
+	for _, s := range info.Settings {
+		switch s.Key {
+		case "vcs.revision":
+			rev = s.Value
+		case "vcs.modified":
+			if s.Value == "true" {
+				modified = " with uncommitted changes"
+			}
+		}
+	}
+	if rev != "" {
+		v += ", commit " + rev + modified
+	}
+	return v + ", " + info.GoVersion
 }
 
 func parse(fs *flag.FlagSet, args []string) error {

@@ -143,3 +143,27 @@ func TestProgressBar(t *testing.T) {
 		t.Error("a buffer is not a terminal")
 	}
 }
+
+// TestHelpAndVersion checks the conventions: help asked for goes to
+// standard output with status 0; a command line without a command prints
+// usage to standard error with status 2; version names the tool.
+func TestHelpAndVersion(t *testing.T) {
+	cases := []struct {
+		args      []string
+		code      int
+		out, errs string // text expected on standard output and error
+		quietOut  bool   // nothing expected on standard output
+	}{
+		{[]string{"help", "discover"}, 0, "--data", "", false},
+		{[]string{"discover", "-h"}, 0, "--order", "", false},
+		{[]string{"help"}, 0, "Commands:", "", false},
+		{nil, 2, "", "Commands:", true},
+		{[]string{"version"}, 0, "antecedent", "", false},
+	}
+	for _, c := range cases {
+		out, errs, code := runCLI(t, c.args...)
+		if code != c.code || !strings.Contains(out, c.out) || !strings.Contains(errs, c.errs) || (c.quietOut && out != "") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q", c.args, code, out, errs)
+		}
+	}
+}
