@@ -102,6 +102,31 @@ func (s *settings) discover(ctx context.Context, d *table.Dataset, o *order.Orde
 // outputs writes the requested exports, refusing to overwrite inputs. Each
 // file is written whole beside its target and renamed into place, so an
 // error or an interrupt (ctx) leaves the old file, never a truncated one.
+// checkOutputs reports, before any work, an output path that is an input
+// or whose folder cannot be written.
+func (s *settings) checkOutputs(inputs ...string) error {
+	for _, p := range []string{s.jsonOut, s.dotOut, s.graphml, s.report} {
+		if p == "" {
+			continue
+		}
+		for _, in := range inputs {
+			if samePath(p, in) {
+				return usageError{fmt.Sprintf("refusing to write %s over the input file %s", p, in)}
+			}
+		}
+		if fi, err := os.Stat(p); err == nil && fi.IsDir() {
+			return fmt.Errorf("%s is a folder, not a file to write", p)
+		}
+		f, err := os.CreateTemp(filepath.Dir(p), ".antecedent-check-*")
+		if err != nil {
+			return fmt.Errorf("cannot write %s: %w", p, err)
+		}
+		f.Close()
+		os.Remove(f.Name())
+	}
+	return nil
+}
+
 func (s *settings) outputs(ctx context.Context, res *antecedent.Result, ropts *report.Options, inputs ...string) error {
 	type out struct {
 		path  string
@@ -170,6 +195,9 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	}
 	cfg, err := s.config()
 	if err != nil {
+		return err
+	}
+	if err := s.checkOutputs(*dataPath, *orderPath); err != nil {
 		return err
 	}
 	copts, err := rs.options()

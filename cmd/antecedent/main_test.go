@@ -103,7 +103,7 @@ func TestErrorsAreOneLine(t *testing.T) {
 		{[]string{"discover", "--data", filepath.Join(dir, "none.csv"), "--order", ord}, 1, "no such file"},
 		{[]string{"discover", "--data", bad, "--order", ord, "--folds", "1"}, 2, "--folds 1"},
 		{[]string{"discover", "--data", bad, "--order", ord, "--rule", "best"}, 2, "unknown rule"},
-		{[]string{"discover", "--data", bad, "--order", ord, "--json", bad}, 1, "line 3"},
+		{[]string{"discover", "--data", bad, "--order", ord, "--json", bad}, 2, "refusing to write"},
 		{[]string{"discover", "--data", bad, "--order", ord, "--stability-pairs", "5", "--stability-threshold", "0.4"}, 2, "(0.5, 1]"},
 		{[]string{"compare", "--estimate", bad, "--truth", bad}, 1, "from"},
 	}
@@ -165,5 +165,17 @@ func TestHelpAndVersion(t *testing.T) {
 		if code != c.code || !strings.Contains(out, c.out) || !strings.Contains(errs, c.errs) || (c.quietOut && out != "") {
 			t.Errorf("%v: exit %d, stdout %q, stderr %q", c.args, code, out, errs)
 		}
+	}
+}
+
+// TestOutputsCheckedFirst checks that an output that cannot be written is
+// reported before the data are even read.
+func TestOutputsCheckedFirst(t *testing.T) {
+	dir := t.TempDir()
+	missing := filepath.Join(dir, "no-such-folder", "result.json")
+	// The data file does not exist either: the output must be reported first.
+	_, errs, code := runCLI(t, "discover", "--data", filepath.Join(dir, "none.csv"), "--order", filepath.Join(dir, "none.order"), "--json", missing)
+	if code == 0 || !strings.Contains(errs, "cannot write") || strings.Count(strings.TrimSpace(errs), "\n") > 0 {
+		t.Errorf("exit %d, stderr %q", code, errs)
 	}
 }
