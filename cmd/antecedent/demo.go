@@ -6,6 +6,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"github.com/antecedent-lab/antecedent/demo"
 	"github.com/antecedent-lab/antecedent/report"
@@ -64,7 +65,7 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 			}
 		}
 		if len(wrote) > 0 {
-			fmt.Fprintf(stdout, "\nWrote %v.\n", wrote)
+			fmt.Fprintf(stdout, "\nWrote %s.\n", strings.Join(wrote, ", "))
 		}
 	}
 	if *questions {

@@ -21,6 +21,7 @@ import (
 	"os"
 	"runtime/debug"
 	"slices"
+	"strings"
 )
 
 // usageError marks errors in how the command was called (exit status 2).
@@ -85,7 +86,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 				fmt.Fprintf(stderr, "antecedent %s: %v; stopped, no partly written file left\n", c.name, i)
 				return i.status()
 			}
-			fmt.Fprintln(stderr, "antecedent "+c.name+": "+oneLine(err.Error()))
+			fmt.Fprintln(stderr, "antecedent "+c.name+": "+oneLine(plain(err.Error())))
 			var ue usageError
 			if errors.As(err, &ue) {
 				return 2
@@ -106,6 +107,32 @@ func usage(w io.Writer) {
 	fmt.Fprintf(w, "  %-9s %s\n", "version", "print the version of the tool and the commit it was built from")
 	fmt.Fprintln(w, "\nRun \"antecedent help COMMAND\" for a command's options.")
 	fmt.Fprintln(w, "\nResults are hypotheses from observational data; see the README's cautions.")
+}
+
+// packagePrefixes are the prefixes the library's error messages start
+// with; the command names itself once, so they are dropped from what it
+// prints.
+var packagePrefixes = []string{"antecedent: ", "table: ", "order: ", "cv: ", "lasso: ", "dag: ", "metrics: ", "intervention: ", "sizing: "}
+
+// plain drops the library's package prefixes from an error message, where
+// they start the message or follow a ": " or "; " separator.
+func plain(msg string) string {
+	for {
+		changed := false
+		for _, p := range packagePrefixes {
+			if strings.HasPrefix(msg, p) {
+				msg, changed = msg[len(p):], true
+			}
+			for _, sep := range []string{": ", "; "} {
+				if strings.Contains(msg, sep+p) {
+					msg, changed = strings.ReplaceAll(msg, sep+p, sep), true
+				}
+			}
+		}
+		if !changed {
+			return msg
+		}
+	}
 }
 
 // oneLine folds an error message onto one line.

@@ -179,3 +179,17 @@ func TestOutputsCheckedFirst(t *testing.T) {
 		t.Errorf("exit %d, stderr %q", code, errs)
 	}
 }
+
+func TestPlainMessages(t *testing.T) {
+	cases := []struct{ in, want string }{
+		{"antecedent: bad configuration: Folds 1: need at least 2", "bad configuration: Folds 1: need at least 2"},
+		{"stray.csv: table: CSV line 3: bad data: x", "stray.csv: CSV line 3: bad data: x"},
+		{"antecedent: node \"y\": cv: lasso: response is constant", "node \"y\": response is constant"},
+		{"column \"order: x\" is odd", "column \"order: x\" is odd"},
+	}
+	for _, c := range cases {
+		if got := plain(c.in); got != c.want {
+			t.Errorf("plain(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
