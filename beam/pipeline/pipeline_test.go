@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -16,13 +15,16 @@ import (
 	"sync/atomic"
 	"testing"
 
+	"github.com/antecedent-lab/antecedent/internal/jsondiff"
+
+	"github.com/apache/beam/sdks/v2/go/pkg/beam"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem"
+	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners/prism"
+
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
 	"github.com/antecedent-lab/antecedent/table"
-	"github.com/apache/beam/sdks/v2/go/pkg/beam"
-	"github.com/apache/beam/sdks/v2/go/pkg/beam/io/filesystem"
-	"github.com/apache/beam/sdks/v2/go/pkg/beam/runners/prism"
 )
 
 // Every test here runs Prism, whose job server listens on every network
@@ -246,52 +248,13 @@ func compare(t *testing.T, want, got *antecedent.Result) {
 	}
 }
 
-// jsonDiff compares two JSON documents: numbers within a relative and
-// absolute tolerance tol, everything else exactly. It returns the first
-// difference's path, or "".
+// jsonDiff returns the first difference between two JSON documents,
+// numbers compared within tol (see internal/jsondiff).
 func jsonDiff(t *testing.T, a, b []byte, tol float64) string {
 	t.Helper()
-	var x, y any
-	if err := json.Unmarshal(a, &x); err != nil {
+	d, err := jsondiff.Diff(a, b, tol)
+	if err != nil {
 		t.Fatal(err)
 	}
-	if err := json.Unmarshal(b, &y); err != nil {
-		t.Fatal(err)
-	}
-	return walkDiff("", x, y, tol)
-}
-
-func walkDiff(path string, x, y any, tol float64) string {
-	switch x := x.(type) {
-	case map[string]any:
-		ym, ok := y.(map[string]any)
-		if !ok || len(ym) != len(x) {
-			return path + ": different objects"
-		}
-		for k, v := range x {
-			if d := walkDiff(path+"."+k, v, ym[k], tol); d != "" {
-				return d
-			}
-		}
-	case []any:
-		ys, ok := y.([]any)
-		if !ok || len(ys) != len(x) {
-			return path + ": different lengths"
-		}
-		for i := range x {
-			if d := walkDiff(fmt.Sprintf("%s[%d]", path, i), x[i], ys[i], tol); d != "" {
-				return d
-			}
-		}
-	case float64:
-		yf, ok := y.(float64)
-		if !ok || math.Abs(x-yf) > tol*math.Max(1, math.Abs(x)) {
-			return fmt.Sprintf("%s: %v vs %v", path, x, y)
-		}
-	default:
-		if x != y {
-			return fmt.Sprintf("%s: %v vs %v", path, x, y)
-		}
-	}
-	return ""
+	return d
 }
