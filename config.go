@@ -103,7 +103,7 @@ func (c *Config) resolve() (Config, error) {
 	if r.Workers < 0 {
 		return r, &ConfigError{"Workers", fmt.Sprint(r.Workers), "must be 0 (one per CPU) or more"}
 	}
-	if r.Missing < table.MissingIsError || r.Missing > table.AvailableCase {
+	if r.Missing < table.MissingRefused || r.Missing > table.MissingAvailableCase {
 		return r, &ConfigError{"Missing", fmt.Sprint(int(r.Missing)), "unknown missing-value policy"}
 	}
 	if r.Stability.Pairs < 0 {

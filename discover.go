@@ -32,7 +32,7 @@ func Discover(d *table.Dataset, o *order.Order) (*Result, error) {
 // in time.
 //
 // It returns an error for an order that does not match the data (listing
-// every problem), missing values under MissingIsError (listing the
+// every problem), missing values under MissingRefused (listing the
 // variables), a categorical variable that would be a response, a bad
 // configuration, and ctx.Err() when ctx is cancelled. Degenerate but legal
 // input (a constant variable, separation) gives a result with warnings.
@@ -94,7 +94,7 @@ func (r *run) prepare(ctx context.Context) error {
 		return err
 	}
 	missing := r.d.Missing() != nil
-	if r.cfg.Missing != table.AvailableCase {
+	if r.cfg.Missing != table.MissingAvailableCase {
 		var err error
 		if r.baseRows, err = r.d.Usable(r.cfg.Missing, nil); err != nil {
 			return err
@@ -120,7 +120,7 @@ func (r *run) prepare(ctx context.Context) error {
 			needMoments = true
 		}
 	}
-	if !needMoments || (missing && r.cfg.Missing == table.AvailableCase) {
+	if !needMoments || (missing && r.cfg.Missing == table.MissingAvailableCase) {
 		return nil
 	}
 	return r.sharedMoments(ctx, n)

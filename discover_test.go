@@ -289,7 +289,7 @@ func TestMissingPolicies(t *testing.T) {
 	if !errors.As(err, &me) || !errors.Is(err, table.ErrMissing) || len(me.Columns) != 2 || me.Columns[0].Name != "bmi" || me.Columns[0].FirstRows[0] != 11 {
 		t.Fatalf("error %v", err)
 	}
-	for _, policy := range []table.MissingPolicy{table.CompleteCase, table.AvailableCase} {
+	for _, policy := range []table.MissingPolicy{table.MissingCompleteCase, table.MissingAvailableCase} {
 		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Missing: policy})
 		if err != nil {
 			t.Fatalf("%v: %v", policy, err)
@@ -297,11 +297,11 @@ func TestMissingPolicies(t *testing.T) {
 		out, _ := res.Node("outcome")
 		age, _ := res.Node("bmi")
 		switch policy {
-		case table.CompleteCase:
+		case table.MissingCompleteCase:
 			if out.Rows != 1497 || age.Rows != 1497 {
 				t.Errorf("complete case rows %d %d, want 1497", out.Rows, age.Rows)
 			}
-		case table.AvailableCase:
+		case table.MissingAvailableCase:
 			if out.Rows != 1497 || age.Rows != 1498 {
 				t.Errorf("available case rows: outcome %d (want 1497), bmi %d (want 1498)", out.Rows, age.Rows)
 			}

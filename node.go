@@ -97,10 +97,10 @@ func (r *run) design(vs []int) (cols, owner []int) {
 // rowsFor returns the rows a node on predictors preds uses (nil: every
 // row).
 func (r *run) rowsFor(v int, preds []int) []int {
-	if r.cfg.Missing != table.AvailableCase {
+	if r.cfg.Missing != table.MissingAvailableCase {
 		return r.baseRows
 	}
-	rows, _ := r.d.Usable(table.AvailableCase, append([]int{v}, preds...))
+	rows, _ := r.d.Usable(table.MissingAvailableCase, append([]int{v}, preds...))
 	return rows
 }
 

@@ -247,13 +247,21 @@ type StabilityNode struct {
 	Bound      Number  `json:"bound"`
 }
 
-// Graph returns the result as a dag.Graph.
+// Graph returns the result as a dag.Graph whose nodes carry their tier,
+// tier label, kind, levels and coding, so that every export of it (DOT,
+// GraphML, JSON) says them.
 func (r *Result) Graph() (*dag.Graph, error) {
 	names := make([]string, len(r.Nodes))
+	data := make(map[string]dag.NodeData, len(r.Nodes))
 	for i, n := range r.Nodes {
 		names[i] = n.Name
+		data[n.Name] = dag.NodeData{Tier: n.Tier, TierLabel: n.TierLabel, Kind: n.Kind.String(), Levels: n.Levels, Coding: n.Coding}
 	}
-	return dag.New(names, r.Edges)
+	g, err := dag.New(names, r.Edges)
+	if err != nil {
+		return nil, err
+	}
+	return g.WithNodeData(data)
 }
 
 // Node returns the named node's result.
@@ -266,18 +274,14 @@ func (r *Result) Node(name string) (*Node, error) {
 	return nil, fmt.Errorf("%w: %q", table.ErrVariable, name)
 }
 
-// WriteGraphML writes the graph as GraphML with each node's kind and
-// coding (see dag.Graph.GraphMLNodes).
+// WriteGraphML writes the graph as GraphML with each node's tier, kind
+// and coding (see dag.Graph.GraphML).
 func (r *Result) WriteGraphML(w io.Writer) error {
 	g, err := r.Graph()
 	if err != nil {
 		return err
 	}
-	nodes := make(map[string]dag.NodeData, len(r.Nodes))
-	for _, n := range r.Nodes {
-		nodes[n.Name] = dag.NodeData{Kind: n.Kind.String(), Levels: n.Levels, Coding: n.Coding}
-	}
-	return g.GraphMLNodes(w, nodes)
+	return g.GraphML(w)
 }
 
 // WriteJSON writes the result as indented JSON, the same bytes as

@@ -175,7 +175,7 @@ func TestExports(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, s := range []string{"digraph net", "age -> outcome", "penwidth", "dashed", "Edge labels: standardised effect: per standard deviation of a continuous parent"} {
+	for _, s := range []string{`digraph "net"`, `"age" -> "outcome"`, "penwidth", "dashed", "Edge labels: standardised effect: per standard deviation of a continuous parent"} {
 		if !strings.Contains(string(dot), s) {
 			t.Errorf("DOT lacks %q:\n%s", s, dot)
 		}

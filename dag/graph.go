@@ -8,7 +8,6 @@ import (
 	"strings"
 
 	"gonum.org/v1/gonum/graph"
-	"gonum.org/v1/gonum/graph/encoding"
 	"gonum.org/v1/gonum/graph/iterator"
 )
 
@@ -84,6 +83,7 @@ type Graph struct {
 	parents  [][]int
 	children [][]int
 	topo     []int
+	data     map[string]NodeData // nil when no node carries data
 }
 
 var _ graph.Directed = (*Graph)(nil)
@@ -407,7 +407,7 @@ func (g *Graph) Edge(u, v int64) graph.Edge {
 	return gonumEdge{from: g.node(int(u)), to: g.node(int(v)), e: g.edges[g.byPair[[2]int{int(u), int(v)}]]}
 }
 
-// gonumEdge adapts an Edge to graph.Edge and encoding.Attributer.
+// gonumEdge adapts an Edge to graph.Edge.
 type gonumEdge struct {
 	from, to graph.Node
 	e        Edge
@@ -419,25 +419,4 @@ func (e gonumEdge) ReversedEdge() graph.Edge {
 	r := e.e
 	r.From, r.To = e.e.To, e.e.From
 	return gonumEdge{from: e.to, to: e.from, e: r}
-}
-
-// Attributes gives DOT attributes: a label with the standardised effect
-// (or coefficient), a dashed line for negative effects, and a pen width
-// that grows with the selection frequency.
-func (e gonumEdge) Attributes() []encoding.Attribute {
-	var attrs []encoding.Attribute
-	effect := e.e.Standardized
-	if math.IsNaN(effect) {
-		effect = e.e.Coefficient
-	}
-	if !math.IsNaN(effect) {
-		attrs = append(attrs, encoding.Attribute{Key: "label", Value: fmt.Sprintf(`"%.2f"`, effect)})
-	}
-	if e.e.Sign < 0 {
-		attrs = append(attrs, encoding.Attribute{Key: "style", Value: "dashed"})
-	}
-	if !math.IsNaN(e.e.Frequency) {
-		attrs = append(attrs, encoding.Attribute{Key: "penwidth", Value: fmt.Sprintf("%.2f", 0.5+2.5*e.e.Frequency)})
-	}
-	return attrs
 }

@@ -143,15 +143,74 @@ func TestCompileListsEverything(t *testing.T) {
 		EmptyTiers:  []int{1},
 		Backward:    []order.Edge{{"c", "b"}},
 		Conflicting: []order.Edge{{"a", "c"}},
-		BadEdges:    []order.Edge{{"x", "c"}},
+		BadEdges:    []order.BadEdge{{Edge: order.Edge{From: "x", To: "c"}, Keyword: "forbid", Unknown: []string{"x"}}},
 	}
 	if !reflect.DeepEqual(ve, want) {
 		t.Errorf("got %+v\nwant %+v", ve, want)
 	}
-	for _, s := range []string{`"ghost"`, `"a"`, `"d"`, "empty tiers: 2", "c -> b", "a -> c", "x -> c"} {
+	for _, s := range []string{`"ghost"`, `"a"`, `"d"`, "empty tiers: 2", "c -> b", "a -> c", `forbid "x" -> "c": unknown name "x"`} {
 		if !strings.Contains(err.Error(), s) {
 			t.Errorf("message %q lacks %s", err, s)
 		}
+	}
+}
+
+// TestMisspelledNames checks that a misspelt name in a tier, forbid or
+// require line is reported as unknown with the data name it most likely
+// misspells.
+func TestMisspelledNames(t *testing.T) {
+	data := []string{"age", "sex", "smoker", "bmi", "diabetes", "outcome"}
+	for _, c := range []struct {
+		text string
+		want []string
+	}{
+		{"tier a: age sexx smoker\ntier b: bmi diabetes outcome\n", []string{`unknown names: "sexx" (did you mean "sex"?)`, `names in no tier: "sex"`}},
+		{"tier a: age sex smoker\ntier b: bmi diabetes outcome\nforbid smokr -> diabetes\n", []string{`forbid "smokr" -> "diabetes": unknown name "smokr" (did you mean "smoker"?)`}},
+		{"tier a: age sex smoker\ntier b: bmi diabetes outcome\nrequire Age -> outcom\n", []string{`require "Age" -> "outcom": unknown names "Age" (did you mean "age"?) and "outcom" (did you mean "outcome"?)`}},
+		{"tier a: age sex smoker\ntier b: bmi diabetes outcome\nforbid weight -> bmi\n", []string{`forbid "weight" -> "bmi": unknown name "weight"`}},
+		{"tier a: age sex smoker\ntier b: bmi diabetes outcome\nforbid bmi -> bmi\n", []string{`forbid "bmi" -> "bmi": an edge from a variable to itself`}},
+	} {
+		o, err := order.Parse(strings.NewReader(c.text))
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = o.Compile(data)
+		if err == nil {
+			t.Errorf("%q accepted", c.text)
+			continue
+		}
+		for _, w := range c.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%q: message %q lacks %q", c.text, err, w)
+			}
+		}
+		if strings.Contains(c.text, "weight") && strings.Contains(err.Error(), "did you mean") {
+			t.Errorf("suggestion for a name close to none: %v", err)
+		}
+	}
+}
+
+// TestClosest checks the suggestion rule (common practice for "did you
+// mean" messages: smallest edit distance, a clear winner, a bound).
+func TestClosest(t *testing.T) {
+	names := []string{"age", "sex", "smoker", "bmi", "diabetes", "diabetes_type", "hba1c", "hba1c_6m"}
+	for _, c := range []struct{ in, want string }{
+		{"sexx", "sex"},         // an insertion
+		{"Sex", "sex"},          // case is ignored
+		{"smkoer", "smoker"},    // a swap of neighbours is one edit
+		{"diabtes", "diabetes"}, // a deletion
+		{"hba1c_6", "hba1c_6m"},
+		{"bm", "bmi"},       // short names allow one edit
+		{"hba1c_", "hba1c"}, // one edit beats two
+		{"weight", ""},      // nothing close
+		{"dbts", ""},        // four edits from diabetes: too far
+	} {
+		if got := order.Closest(c.in, names); got != c.want {
+			t.Errorf("Closest(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+	if got := order.Closest("ab", []string{"ax", "ay"}); got != "" {
+		t.Errorf("a tie gave %q", got)
 	}
 }
 

@@ -13,13 +13,23 @@ var ErrInvalid = errors.New("order: invalid order")
 // ValidationError lists every problem found when an order is checked
 // against a dataset's variable names.
 type ValidationError struct {
-	Unknown     []string // names in the order but not in the data
-	Duplicated  []string // names placed more than once
-	Unplaced    []string // data names in no tier
-	EmptyTiers  []int    // tiers (0-based) with no names
-	Backward    []Edge   // required edges that do not go forward in time
-	Conflicting []Edge   // edges both forbidden and required
-	BadEdges    []Edge   // constraint edges naming unknown variables or a self-loop
+	Unknown     []string  // names in the order but not in the data
+	Duplicated  []string  // names placed more than once
+	Unplaced    []string  // data names in no tier
+	EmptyTiers  []int     // tiers (0-based) with no names
+	Backward    []Edge    // required edges that do not go forward in time
+	Conflicting []Edge    // edges both forbidden and required
+	BadEdges    []BadEdge // forbid and require lines naming unknown variables or one variable twice
+	// Suggestions maps each unknown name (in a tier or an edge) to the
+	// data name it most likely misspells, when one is close.
+	Suggestions map[string]string
+}
+
+// BadEdge is a forbid or require line that cannot apply to the data.
+type BadEdge struct {
+	Edge
+	Keyword string   // "forbid" or "require"
+	Unknown []string // its names that are not in the data
 }
 
 // Error implements the error interface and lists every problem.
@@ -30,7 +40,13 @@ func (e *ValidationError) Error() string {
 			parts = append(parts, fmt.Sprintf("%s: %s", what, strings.Join(quoteAll(items), ", ")))
 		}
 	}
-	add("unknown names", e.Unknown)
+	if len(e.Unknown) > 0 {
+		items := make([]string, len(e.Unknown))
+		for i, n := range e.Unknown {
+			items[i] = e.unknown(n)
+		}
+		parts = append(parts, "unknown names: "+strings.Join(items, ", "))
+	}
 	add("names placed twice", e.Duplicated)
 	add("names in no tier", e.Unplaced)
 	if len(e.EmptyTiers) > 0 {
@@ -42,8 +58,31 @@ func (e *ValidationError) Error() string {
 	}
 	add("required edges not forward in time", edgeStrings(e.Backward))
 	add("edges both forbidden and required", edgeStrings(e.Conflicting))
-	add("bad constraint edges", edgeStrings(e.BadEdges))
+	for _, b := range e.BadEdges {
+		line := fmt.Sprintf("%s %q -> %q: ", b.Keyword, b.From, b.To)
+		if len(b.Unknown) == 0 {
+			parts = append(parts, line+"an edge from a variable to itself")
+			continue
+		}
+		items := make([]string, len(b.Unknown))
+		for i, n := range b.Unknown {
+			items[i] = e.unknown(n)
+		}
+		word := "unknown name "
+		if len(items) > 1 {
+			word = "unknown names "
+		}
+		parts = append(parts, line+word+strings.Join(items, " and "))
+	}
 	return "order: " + strings.Join(parts, "; ")
+}
+
+// unknown quotes an unknown name with its suggestion.
+func (e *ValidationError) unknown(n string) string {
+	if s, ok := e.Suggestions[n]; ok {
+		return fmt.Sprintf("%q (did you mean %q?)", n, s)
+	}
+	return fmt.Sprintf("%q", n)
 }
 
 // Unwrap returns ErrInvalid.
@@ -51,6 +90,73 @@ func (e *ValidationError) Unwrap() error { return ErrInvalid }
 
 func (e *ValidationError) empty() bool {
 	return len(e.Unknown)+len(e.Duplicated)+len(e.Unplaced)+len(e.EmptyTiers)+len(e.Backward)+len(e.Conflicting)+len(e.BadEdges) == 0
+}
+
+// suggest fills Suggestions for the unknown names.
+func (e *ValidationError) suggest(names []string) {
+	var unknown []string
+	unknown = append(unknown, e.Unknown...)
+	for _, b := range e.BadEdges {
+		unknown = append(unknown, b.Unknown...)
+	}
+	for _, n := range unknown {
+		if s := Closest(n, names); s != "" {
+			if e.Suggestions == nil {
+				e.Suggestions = map[string]string{}
+			}
+			e.Suggestions[n] = s
+		}
+	}
+}
+
+// Closest returns the name in names that name most likely misspells: the
+// one at the smallest edit distance (Levenshtein's: insertions, deletions
+// and substitutions, ignoring case, a swap of neighbours counted as one),
+// if that distance is at most a third of name's length and at most 3, and
+// no other name is as close; or else "".
+func Closest(name string, names []string) string {
+	a := []rune(strings.ToLower(name))
+	limit := min(3, max(1, len(a)/3))
+	best, bestD, tie := "", limit+1, false
+	for _, n := range names {
+		d := distance(a, []rune(strings.ToLower(n)))
+		switch {
+		case d < bestD:
+			best, bestD, tie = n, d, false
+		case d == bestD:
+			tie = true
+		}
+	}
+	if tie || bestD > limit {
+		return ""
+	}
+	return best
+}
+
+// distance is the optimal string alignment distance: Levenshtein's with
+// a transposition of two neighbouring characters counted as one edit.
+func distance(a, b []rune) int {
+	prev2 := make([]int, len(b)+1)
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+			if i > 1 && j > 1 && a[i-1] == b[j-2] && a[i-2] == b[j-1] {
+				cur[j] = min(cur[j], prev2[j-2]+1)
+			}
+		}
+		prev2, prev, cur = prev, cur, prev2
+	}
+	return prev[len(b)]
 }
 
 func quoteAll(s []string) []string {
@@ -131,18 +237,25 @@ func (o *Order) Compile(names []string) (*Plan, error) {
 			ve.Unplaced = append(ve.Unplaced, n)
 		}
 	}
-	edge := func(e Edge) (int, int, bool) {
+	edge := func(e Edge, keyword string) (int, int, bool) {
 		a, ok1 := index[e.From]
 		b, ok2 := index[e.To]
-		if !ok1 || !ok2 || a == b {
-			ve.BadEdges = append(ve.BadEdges, e)
-			return 0, 0, false
+		if ok1 && ok2 && a != b {
+			return a, b, true
 		}
-		return a, b, true
+		bad := BadEdge{Edge: e, Keyword: keyword}
+		if !ok1 {
+			bad.Unknown = append(bad.Unknown, e.From)
+		}
+		if !ok2 && e.To != e.From {
+			bad.Unknown = append(bad.Unknown, e.To)
+		}
+		ve.BadEdges = append(ve.BadEdges, bad)
+		return 0, 0, false
 	}
 	forbidden := map[[2]int]bool{}
 	for _, e := range o.Forbidden {
-		if a, b, ok := edge(e); ok {
+		if a, b, ok := edge(e, "forbid"); ok {
 			forbidden[[2]int{a, b}] = true
 		}
 	}
@@ -156,7 +269,7 @@ func (o *Order) Compile(names []string) (*Plan, error) {
 	}
 	copy(p.Labels, o.Labels)
 	for _, e := range o.Required {
-		a, b, ok := edge(e)
+		a, b, ok := edge(e, "require")
 		if !ok {
 			continue
 		}
@@ -173,6 +286,7 @@ func (o *Order) Compile(names []string) (*Plan, error) {
 		}
 	}
 	if !ve.empty() {
+		ve.suggest(names)
 		return nil, ve
 	}
 	for j := range names {

@@ -352,12 +352,12 @@ func TestReadCSVMissingLines(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := `table: missing values: "y" has 2 missing values (lines 5, 6); choose the missing-value policy CompleteCase or AvailableCase to proceed`
+	want := `table: missing values: "y" has 2 missing values (lines 5, 6); choose the missing-value policy complete-case or available-case to proceed`
 	if err := d.Missing(); err == nil || err.Error() != want {
 		t.Errorf("got  %v\nwant %s", err, want)
 	}
 	m, _ := table.NewDataset([]string{"y"}, [][]float64{{1, math.NaN()}})
-	want = `table: missing values: "y" has 1 missing value (data row 2); choose the missing-value policy CompleteCase or AvailableCase to proceed`
+	want = `table: missing values: "y" has 1 missing value (data row 2); choose the missing-value policy complete-case or available-case to proceed`
 	if err := m.Missing(); err == nil || err.Error() != want {
 		t.Errorf("got  %v\nwant %s", err, want)
 	}

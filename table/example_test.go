@@ -33,7 +33,7 @@ func ExampleReadCSV() {
 	// smoker binary [0 1] 1 vs 0 (reference)
 	// readmitted binary [no yes] "yes" = 1, "no" = 0 (reference)
 	// site categorical [east north south] "north", "south" each vs "east" (reference)
-	// table: missing values: "smoker" has 1 missing value (line 5); choose the missing-value policy CompleteCase or AvailableCase to proceed
+	// table: missing values: "smoker" has 1 missing value (line 5); choose the missing-value policy complete-case or available-case to proceed
 }
 
 // ExampleCSVError_Describe shows an odd cell reported with its line and
@@ -60,9 +60,9 @@ func ExampleDataset_Usable() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	all, _ := d.Usable(table.CompleteCase, nil)
-	ab, _ := d.Usable(table.AvailableCase, []int{0, 1})
-	_, err = d.Usable(table.MissingIsError, nil)
+	all, _ := d.Usable(table.MissingCompleteCase, nil)
+	ab, _ := d.Usable(table.MissingAvailableCase, []int{0, 1})
+	_, err = d.Usable(table.MissingRefused, nil)
 	fmt.Println(all, ab, err != nil)
 	// Output:
 	// [0 3] [0 2 3] true

@@ -25,7 +25,7 @@ type MissingError struct {
 // Error implements the error interface.
 func (e *MissingError) Error() string {
 	return "table: missing values: " + e.List() +
-		"; choose the missing-value policy CompleteCase or AvailableCase to proceed"
+		"; choose the missing-value policy complete-case or available-case to proceed"
 }
 
 // List names each variable with missing values, their number and where
@@ -65,14 +65,14 @@ func (e *MissingError) Unwrap() error { return ErrMissing }
 type MissingPolicy int
 
 const (
-	// MissingIsError refuses data with missing values, naming the columns
+	// MissingRefused refuses data with missing values, naming the columns
 	// and their first missing rows.
-	MissingIsError MissingPolicy = iota
-	// CompleteCase drops every row with a missing value in any variable.
-	CompleteCase
-	// AvailableCase fits each response on the rows where it and all its
+	MissingRefused MissingPolicy = iota
+	// MissingCompleteCase drops every row with a missing value in any variable.
+	MissingCompleteCase
+	// MissingAvailableCase fits each response on the rows where it and all its
 	// candidate predictors are present.
-	AvailableCase
+	MissingAvailableCase
 )
 
 var missingNames = []string{"error", "complete-case", "available-case"}
@@ -101,21 +101,21 @@ func (m *MissingPolicy) UnmarshalText(b []byte) error {
 
 // Usable returns the rows a fit on the variables vars (indices into
 // Variables) uses under policy p, nil meaning every row: under
-// MissingIsError every row, or the *MissingError listing the dataset's
-// missing values; under CompleteCase the rows where every variable of the
-// dataset is present; under AvailableCase the rows where every variable of
+// MissingRefused every row, or the *MissingError listing the dataset's
+// missing values; under MissingCompleteCase the rows where every variable of the
+// dataset is present; under MissingAvailableCase the rows where every variable of
 // vars is present.
 func (d *Dataset) Usable(p MissingPolicy, vars []int) ([]int, error) {
 	switch p {
-	case MissingIsError:
+	case MissingRefused:
 		return nil, d.Missing()
-	case CompleteCase:
+	case MissingCompleteCase:
 		all := make([]int, len(d.vars))
 		for v := range all {
 			all[v] = v
 		}
 		return d.Present(all), nil
-	case AvailableCase:
+	case MissingAvailableCase:
 		return d.Present(vars), nil
 	}
 	return nil, fmt.Errorf("%w: unknown missing-value policy %d", ErrData, int(p))

@@ -26,11 +26,11 @@ func TestUsable(t *testing.T) {
 		want   []int // nil: every row
 		err    error
 	}{
-		{"error policy", table.MissingIsError, nil, nil, table.ErrMissing},
-		{"complete case ignores vars", table.CompleteCase, []int{0}, []int{0, 3}, nil},
-		{"available case, complete variable", table.AvailableCase, []int{0}, nil, nil},
-		{"available case, one gap", table.AvailableCase, []int{0, 2}, []int{0, 1, 3, 4}, nil},
-		{"available case, two gaps", table.AvailableCase, []int{1, 2}, []int{0, 3}, nil},
+		{"error policy", table.MissingRefused, nil, nil, table.ErrMissing},
+		{"complete case ignores vars", table.MissingCompleteCase, []int{0}, []int{0, 3}, nil},
+		{"available case, complete variable", table.MissingAvailableCase, []int{0}, nil, nil},
+		{"available case, one gap", table.MissingAvailableCase, []int{0, 2}, []int{0, 1, 3, 4}, nil},
+		{"available case, two gaps", table.MissingAvailableCase, []int{1, 2}, []int{0, 3}, nil},
 		{"unknown policy", table.MissingPolicy(7), nil, nil, table.ErrData},
 	}
 	for _, c := range cases {
@@ -44,17 +44,17 @@ func TestUsable(t *testing.T) {
 		}
 	}
 	var me *table.MissingError
-	if _, err := d.Usable(table.MissingIsError, nil); !errors.As(err, &me) || len(me.Columns) != 2 || me.Columns[0].Name != "b" || !slices.Equal(me.Columns[0].FirstRows, []int{2, 5}) {
+	if _, err := d.Usable(table.MissingRefused, nil); !errors.As(err, &me) || len(me.Columns) != 2 || me.Columns[0].Name != "b" || !slices.Equal(me.Columns[0].FirstRows, []int{2, 5}) {
 		t.Errorf("missing error %+v", me)
 	}
 	full, _ := table.NewDataset([]string{"x"}, [][]float64{{1, 2}})
-	if rows, err := full.Usable(table.MissingIsError, nil); rows != nil || err != nil {
+	if rows, err := full.Usable(table.MissingRefused, nil); rows != nil || err != nil {
 		t.Errorf("complete data: rows %v, error %v", rows, err)
 	}
 }
 
 func TestMissingPolicyText(t *testing.T) {
-	for _, p := range []table.MissingPolicy{table.MissingIsError, table.CompleteCase, table.AvailableCase} {
+	for _, p := range []table.MissingPolicy{table.MissingRefused, table.MissingCompleteCase, table.MissingAvailableCase} {
 		b, _ := p.MarshalText()
 		var q table.MissingPolicy
 		if err := q.UnmarshalText(b); err != nil || q != p {

@@ -1,21 +1,18 @@
 package main
 
 import (
-	"bytes"
 	"context"
 	"fmt"
 	"io"
 	"os"
-	"strings"
 
-	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/dag"
 )
 
 func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("compare", "--estimate FILE --truth FILE", stderr)
-	estPath := fs.String("estimate", "", "estimated network: a result JSON or an edge-list CSV (required)")
-	truthPath := fs.String("truth", "", "true network: an edge-list CSV or graph JSON (required)")
+	estPath := fs.String("estimate", "", "estimated network: a result JSON, GraphML, DOT or edge-list CSV file (required)")
+	truthPath := fs.String("truth", "", "true network, in any of the same forms (required)")
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -41,27 +38,17 @@ func runCompare(ctx context.Context, args []string, stdout, stderr io.Writer) er
 	return nil
 }
 
-// readEdges reads edges from a result JSON, a graph JSON or an edge-list CSV.
+// readEdges reads the edges of any graph file the tool writes: a result
+// JSON, a graph JSON, GraphML, DOT or an edge-list CSV.
 func readEdges(path string) ([]dag.Edge, error) {
-	b, err := os.ReadFile(path)
+	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
 	}
-	if t := bytes.TrimSpace(b); len(t) > 0 && t[0] == '{' {
-		if strings.Contains(string(t[:min(len(t), 1<<16)]), `"nodes": [`) || bytes.Contains(t, []byte(`"config"`)) {
-			if res, err := antecedent.ReadResult(bytes.NewReader(b)); err == nil {
-				return res.Edges, nil
-			}
-		}
-		g, err := dag.ReadJSON(bytes.NewReader(b))
-		if err != nil {
-			return nil, fmt.Errorf("%s: %w", path, err)
-		}
-		return g.Edges(), nil
-	}
-	g, err := dag.ReadEdgeCSV(bytes.NewReader(b))
+	defer f.Close()
+	g, format, err := dag.Read(f)
 	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
+		return nil, fmt.Errorf("%s (read as %v): %w", path, format, err)
 	}
 	return g.Edges(), nil
 }

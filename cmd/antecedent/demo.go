@@ -58,13 +58,7 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	}
 	if !s.quiet {
 		writeSummary(stdout, res, truth)
-		var wrote []string
-		for _, p := range []string{s.jsonOut, s.dotOut, s.graphml, s.report} {
-			if p != "" {
-				wrote = append(wrote, p)
-			}
-		}
-		if len(wrote) > 0 {
+		if wrote := s.outPaths(); len(wrote) > 0 {
 			fmt.Fprintf(stdout, "\nWrote %s.\n", strings.Join(wrote, ", "))
 		}
 	}

@@ -33,7 +33,29 @@ type settings struct {
 	jsonOut   string
 	dotOut    string
 	graphml   string
+	edges     string
 	report    string
+}
+
+// outPaths lists the output files asked for, in the order they are
+// written.
+func (s *settings) outPaths() []string {
+	var ps []string
+	for _, p := range []string{s.jsonOut, s.dotOut, s.graphml, s.edges, s.report} {
+		if p != "" {
+			ps = append(ps, p)
+		}
+	}
+	return ps
+}
+
+// registerGraphOutputs registers the graph exports (and the report), which
+// discover, demo and render share.
+func (s *settings) registerGraphOutputs(fs *flag.FlagSet) {
+	fs.StringVar(&s.dotOut, "dot", "", "write the graph in DOT to this file (tiers as rows)")
+	fs.StringVar(&s.graphml, "graphml", "", "write the graph as GraphML to this file")
+	fs.StringVar(&s.edges, "edges", "", "write the edges as a CSV edge list to this file")
+	fs.StringVar(&s.report, "report", "", "write a self-contained HTML report to this file")
 }
 
 func (s *settings) register(fs *flag.FlagSet) {
@@ -49,9 +71,7 @@ func (s *settings) register(fs *flag.FlagSet) {
 	fs.BoolVar(&s.sameTier, "same-tier", false, "also report same-tier associations as undirected links")
 	fs.BoolVar(&s.quiet, "quiet", false, "print nothing but errors")
 	fs.StringVar(&s.jsonOut, "json", "", "write the result as JSON to this file")
-	fs.StringVar(&s.dotOut, "dot", "", "write the graph in DOT to this file")
-	fs.StringVar(&s.graphml, "graphml", "", "write the graph as GraphML to this file")
-	fs.StringVar(&s.report, "report", "", "write a self-contained HTML report to this file")
+	s.registerGraphOutputs(fs)
 }
 
 // config maps the flags onto a Config and lets the Config check them; a
@@ -105,10 +125,7 @@ func (s *settings) discover(ctx context.Context, d *table.Dataset, o *order.Orde
 // checkOutputs reports, before any work, an output path that is an input
 // or whose folder cannot be written.
 func (s *settings) checkOutputs(inputs ...string) error {
-	for _, p := range []string{s.jsonOut, s.dotOut, s.graphml, s.report} {
-		if p == "" {
-			continue
-		}
+	for _, p := range s.outPaths() {
 		for _, in := range inputs {
 			if samePath(p, in) {
 				return usageError{fmt.Sprintf("refusing to write %s over the input file %s", p, in)}
@@ -146,7 +163,8 @@ func (s *settings) outputs(ctx context.Context, res *antecedent.Result, ropts *r
 			_, err = w.Write(append(b, '\n'))
 			return err
 		}},
-		{s.graphml, res.WriteGraphML},
+		{s.graphml, g.GraphML},
+		{s.edges, g.WriteEdgeCSV},
 		{s.report, func(w io.Writer) error { return report.Write(w, res, ropts) }},
 	}
 	for _, o := range outs {

@@ -13,12 +13,10 @@ import (
 // a result JSON written by any run: this command, the Beam pipeline, or
 // the library.
 func runRender(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fs := newFlags("render", "--result FILE [--report FILE] [--dot FILE] [--graphml FILE]", stderr)
+	fs := newFlags("render", "--result FILE [--report FILE] [--dot FILE] [--graphml FILE] [--edges FILE]", stderr)
 	in := fs.String("result", "", "result JSON to render (required)")
 	var s settings
-	fs.StringVar(&s.dotOut, "dot", "", "write the graph in DOT to this file")
-	fs.StringVar(&s.graphml, "graphml", "", "write the graph as GraphML to this file")
-	fs.StringVar(&s.report, "report", "", "write a self-contained HTML report to this file")
+	s.registerGraphOutputs(fs)
 	quiet := fs.Bool("quiet", false, "print nothing but errors")
 	if err := parse(fs, args); err != nil {
 		return err
