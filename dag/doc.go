@@ -6,11 +6,16 @@
 //
 // New checks acyclicity when the graph is built, so a Graph value is always
 // a DAG. Graph implements gonum's graph.Directed, so gonum's algorithms
-// (topo.Sort, path searches, dot.Marshal) work on it unchanged.
+// (topo.Sort, path searches) work on it unchanged. Nodes may carry data
+// (NodeData: tier of the time order, kind, levels, coding).
 //
-// Graphs export to DOT (through gonum's encoding/dot), GraphML (the open XML
-// standard) and JSON, and read back from JSON or from an edge-list CSV with
-// a "from,to" header, as used for a known true graph.
+// A graph is written in four forms and read back from each with every
+// edge attribute exact: JSON (whose keys match the discovery's result
+// JSON, so ReadJSON reads either), GraphML (the open XML standard; typed
+// data keys with descriptions), DOT (Graphviz's language; each tier one row
+// of rank same, exact values as extra attributes) and an edge-list CSV
+// ("from,to,…"; no node data). Read tells the forms apart by their first
+// characters.
 //
 // Compare scores an estimated edge list against a true one: directed
 // precision, recall and F1, skeleton precision and recall, and the

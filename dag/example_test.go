@@ -1,6 +1,7 @@
 package dag_test
 
 import (
+	"bytes"
 	"fmt"
 	"log"
 
@@ -28,4 +29,30 @@ func ExampleCompare() {
 	fmt.Printf("precision %.2f recall %.2f SHD %d\n", s.Precision, s.Recall, s.SHD)
 	// Output:
 	// precision 0.33 recall 0.50 SHD 2
+}
+
+// ExampleRead writes a graph with tiers as DOT, in which each tier is one
+// row when drawn, and reads it back.
+func ExampleRead() {
+	g, err := dag.New([]string{"exercise", "weight", "knee_pain"}, []dag.Edge{
+		dag.NewEdge("exercise", "weight"), dag.NewEdge("weight", "knee_pain")})
+	if err != nil {
+		log.Fatal(err)
+	}
+	g, err = g.WithNodeData(map[string]dag.NodeData{
+		"exercise": {Tier: 1, TierLabel: "habits"}, "weight": {Tier: 2}, "knee_pain": {Tier: 3}})
+	if err != nil {
+		log.Fatal(err)
+	}
+	b, err := g.DOT("knees")
+	if err != nil {
+		log.Fatal(err)
+	}
+	back, format, err := dag.Read(bytes.NewReader(b))
+	if err != nil {
+		log.Fatal(err)
+	}
+	fmt.Println(format, back.Names(), back.NodeData("exercise").TierLabel, len(back.Edges()))
+	// Output:
+	// DOT [exercise weight knee_pain] habits 2
 }

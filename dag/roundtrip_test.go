@@ -6,6 +6,7 @@ import (
 	"os"
 	"reflect"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -240,4 +241,65 @@ func FuzzRead(f *testing.F) {
 			t.Fatal(err)
 		}
 	})
+}
+
+// BenchmarkRoundTrip writes and reads a 300-node, 900-edge graph in each
+// form.
+func BenchmarkRoundTrip(b *testing.B) {
+	const p = 300
+	names := make([]string, p)
+	data := map[string]dag.NodeData{}
+	for i := range names {
+		names[i] = "v" + strings.Repeat("x", i%7) + string(rune('a'+i%26)) + strconv.Itoa(i)
+		data[names[i]] = dag.NodeData{Tier: 1 + i/30, Kind: "continuous"}
+	}
+	var edges []dag.Edge
+	for i := 30; i < p; i++ {
+		for k := 1; k <= 3; k++ {
+			e := dag.NewEdge(names[(i*k*7)%(i/30*30)], names[i])
+			e.Coefficient, e.Standardized, e.Sign = float64(k)/7, float64(k)/11, 1
+			edges = append(edges, e)
+		}
+	}
+	g, err := dag.New(names, uniqueEdges(edges))
+	if err != nil {
+		b.Fatal(err)
+	}
+	if g, err = g.WithNodeData(data); err != nil {
+		b.Fatal(err)
+	}
+	for _, f := range []dag.Format{dag.FormatJSON, dag.FormatGraphML, dag.FormatDOT, dag.FormatEdgeCSV} {
+		b.Run(f.String(), func(b *testing.B) {
+			for b.Loop() {
+				var buf bytes.Buffer
+				switch f {
+				case dag.FormatJSON:
+					j, _ := g.MarshalJSON()
+					buf.Write(j)
+				case dag.FormatGraphML:
+					g.GraphML(&buf)
+				case dag.FormatDOT:
+					d, _ := g.DOT("g")
+					buf.Write(d)
+				default:
+					g.WriteEdgeCSV(&buf)
+				}
+				if _, _, err := dag.Read(&buf); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+func uniqueEdges(es []dag.Edge) []dag.Edge {
+	seen := map[[2]string]bool{}
+	var out []dag.Edge
+	for _, e := range es {
+		if k := [2]string{e.From, e.To}; !seen[k] {
+			seen[k] = true
+			out = append(out, e)
+		}
+	}
+	return out
 }
