@@ -62,7 +62,7 @@ func (s *settings) register(fs *flag.FlagSet) {
 	fs.IntVar(&s.folds, "folds", 10, "cross-validation folds")
 	fs.StringVar(&s.rule, "rule", "one-se", "penalty choice: one-se or minimum")
 	fs.StringVar(&s.selection, "selection", "adaptive", "how parents are chosen: adaptive (adaptive lasso), lasso (the textbook lasso) or relaxed (relaxed lasso)")
-	fs.StringVar(&s.measure, "measure", "deviance", "cross-validated loss: deviance, mse, mae, auc or misclassification")
+	fs.StringVar(&s.measure, "measure", "deviance", "cross-validated loss: deviance, mse, mae, auc or misclassification (auc and misclassification score binary nodes; continuous ones then use deviance)")
 	fs.Uint64Var(&s.seed, "seed", 1, "seed for folds and subsamples")
 	fs.IntVar(&s.pairs, "stability-pairs", 0, "complementary pairs for stability selection (0 = off)")
 	fs.Float64Var(&s.threshold, "stability-threshold", 0.75, "selection frequency an edge needs, in (0.5, 1]")
