@@ -97,7 +97,8 @@ const stabilityPairs = 25
 func procedures() []procedure {
 	rule := func(r cv.Rule) func(uint64) *antecedent.Config {
 		return func(seed uint64) *antecedent.Config {
-			return &antecedent.Config{Seed: seed, Workers: 1, CV: cv.Settings{Rule: r}}
+			// The textbook lasso, named: the default selection is not.
+			return &antecedent.Config{Seed: seed, Workers: 1, Selection: antecedent.PenalisedLasso, CV: cv.Settings{Rule: r}}
 		}
 	}
 	stable := func(seed uint64) *antecedent.Config {
