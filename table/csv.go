@@ -176,6 +176,7 @@ func ReadCSV(r io.Reader, opts *CSVOptions) (*Dataset, error) {
 // reader holds one ReadCSV call's resolved settings.
 type reader struct {
 	o       CSVOptions
+	rules   rules
 	comma   byte
 	point   byte
 	codes   map[string]bool
@@ -224,6 +225,7 @@ func newReader(opts *CSVOptions) (*reader, error) {
 			rd.numCode = true
 		}
 	}
+	rd.rules = rules{reference: o.Reference, codedOne: o.CodedOne, asIs: o.AsIs, maxLevels: o.MaxLevels, point: rd.point, csv: true}
 	rd.workers = o.Workers
 	if rd.workers <= 0 {
 		rd.workers = runtime.GOMAXPROCS(0)
@@ -333,4 +335,102 @@ func (rd *reader) separatorHint(raw []byte) error {
 		Fixes: []Fix{{Option: "Comma", Value: string(best)}}}
 }
 
-func (rd *reader) asIs(j int) bool { return slices.Contains(rd.o.AsIs, rd.names[j]) }
+// read runs ReadCSV: the header, the blocks, then each column's kind.
+func (rd *reader) read(r io.Reader) (*Dataset, error) {
+	src := &source{r: r, size: sizeOf(r)}
+	buf := src.fill(make([]byte, 0, blockSize), blockSize)
+	for !src.eof && safeCut(buf) < 0 {
+		if len(buf) > rd.maxLine+blockSize {
+			return nil, &CSVError{Line: 1, Err: badCSV("line longer than %d bytes", rd.maxLine)}
+		}
+		buf = src.fill(buf, 2*len(buf))
+	}
+	if src.err != nil {
+		return nil, src.err
+	}
+	pos, line := 0, 1
+	for pos < len(buf) && blank(buf, pos) > 0 {
+		pos += blank(buf, pos)
+		line++
+	}
+	if pos == len(buf) {
+		return nil, &CSVError{Line: 1, Err: badCSV("empty file, expected a header row")}
+	}
+	p := &parser{rd: rd}
+	fields, next, nextLine, err := p.nextRecord(buf, pos, line)
+	if err != nil {
+		return nil, err
+	}
+	if err := rd.header(fields, buf[pos:next]); err != nil {
+		return nil, err
+	}
+	blocks, cols, err := rd.stream(src, buf[next:], nextLine, int64(len(buf)))
+	if err != nil {
+		return nil, err
+	}
+	rows := 0
+	for _, b := range blocks {
+		if b.err != nil {
+			return nil, b.err
+		}
+		if rd.o.MaxRows > 0 && rows+b.rows > rd.o.MaxRows {
+			return nil, &CSVError{Line: b.lines[rd.o.MaxRows-rows], Err: badCSV("more than %d rows", rd.o.MaxRows)}
+		}
+		rows += b.rows
+	}
+	if rows == 0 {
+		return nil, &CSVError{Line: nextLine, Err: badCSV("header only, no data rows")}
+	}
+	gaps := false
+	for _, b := range blocks {
+		gaps = gaps || b.rows < b.bound
+	}
+	for j, c := range cols {
+		if gaps {
+			// Blank lines or quoted line breaks: close the gaps.
+			at := 0
+			for _, b := range blocks {
+				at += copy(c[at:], c[b.off:b.off+b.rows])
+			}
+		}
+		cols[j] = c[:rows:rows]
+	}
+	d := &Dataset{rows: rows, lines: make([]int, 0, rows)}
+	for _, b := range blocks {
+		d.lines = append(d.lines, b.lines...)
+	}
+	for j := range rd.names {
+		if err := rd.rules.decide(d, rd.columnIn(d, blocks, cols[j], j)); err != nil {
+			return nil, err
+		}
+		cols[j] = nil
+	}
+	return d, nil
+}
+
+// columnIn hands column j of the blocks to rules.decide.
+func (rd *reader) columnIn(d *Dataset, blocks []*block, col []float64, j int) *columnIn {
+	in := &columnIn{name: rd.names[j], col: col, keys: d.lines, naming: lineNaming{}}
+	for _, b := range blocks {
+		if b.text != nil {
+			in.texts = append(in.texts, &b.text[j])
+		}
+	}
+	// decide asks for the text cells in row order: a cursor over the
+	// blocks finds each.
+	bi, start := 0, 0
+	in.textAt = func(i int) string {
+		for i >= start+blocks[bi].rows {
+			start += blocks[bi].rows
+			bi++
+		}
+		return blocks[bi].textAt(j, i-start)
+	}
+	in.fail = func(line int, err error, fixes ...Fix) error {
+		if line == noRow {
+			line = 1
+		}
+		return &CSVError{Line: line, Column: j + 1, Name: rd.names[j], Err: err, Fixes: fixes}
+	}
+	return in
+}
