@@ -5,6 +5,7 @@ go 1.26.0
 require (
 	github.com/antecedent-lab/antecedent v0.0.0
 	github.com/jackc/pgx/v5 v5.13.0
+	github.com/parquet-go/parquet-go v0.32.1
 	modernc.org/sqlite v1.62.0
 )
 
@@ -20,7 +21,6 @@ require (
 	github.com/ncruces/go-strftime v1.1.0 // indirect
 	github.com/parquet-go/bitpack v1.0.3 // indirect
 	github.com/parquet-go/jsonlite v1.5.5 // indirect
-	github.com/parquet-go/parquet-go v0.32.1 // indirect
 	github.com/pierrec/lz4/v4 v4.1.33 // indirect
 	github.com/remyoudompheng/bigfft v0.0.0-20230129092748-24d4a6f8daec // indirect
 	github.com/twpayne/go-geom v1.6.1 // indirect
