@@ -29,6 +29,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"runtime/pprof"
 	"slices"
 	"strconv"
 	"strings"
@@ -49,11 +50,22 @@ func main() {
 	dir := flag.String("dir", filepath.Join(os.TempDir(), "antecedent-readbench"), "where the CSV, Parquet and SQLite files are written")
 	runs := flag.Int("runs", 3, "reads of each source (the best is reported)")
 	withSQLite := flag.Bool("sqlite", false, "also load and read an SQLite file (slow to load)")
+	only := flag.String("only", "", "comma-separated sources to read (csv, parquet, postgres, sqlite); empty: all")
 	child := flag.String("child", "", "internal: read one source and report")
+	cpuProfile := flag.String("cpuprofile", "", "with -child: write a CPU profile of the read here")
 	flag.Parse()
 	ctx := context.Background()
 	if *child != "" {
+		if *cpuProfile != "" {
+			f, err := os.Create(*cpuProfile)
+			if err != nil {
+				log.Fatal(err)
+			}
+			pprof.StartCPUProfile(f)
+			defer pprof.StopCPUProfile()
+		}
 		if err := readOne(ctx, *child, *dir, *rows, *cols); err != nil {
+			pprof.StopCPUProfile()
 			log.Fatal(err)
 		}
 		return
@@ -84,6 +96,9 @@ func main() {
 	fmt.Printf("table: %d rows × %d columns; raw column store %.0f MiB\n", *rows, *cols, raw)
 	fmt.Printf("%-10s %12s %14s %16s %10s\n", "source", "seconds", "rows/s", "peak RSS (MiB)", "× raw")
 	for _, s := range sources {
+		if *only != "" && !slices.Contains(strings.Split(*only, ","), s) {
+			continue
+		}
 		best, peak := math.Inf(1), 0.0
 		for range *runs {
 			sec, rss, err := runChild(s, *dir, *rows, *cols)

@@ -7,6 +7,7 @@ import (
 	"errors"
 	"math"
 	"os"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -240,6 +241,25 @@ func TestReadBadBytes(t *testing.T) {
 		if d.Rows() != want.Rows() {
 			t.Errorf("damage at %d: %d rows read without an error", at, d.Rows())
 		}
+	}
+}
+
+// TestReadPartsDiffer: parts with other columns than the first are
+// refused, naming the part.
+func TestReadPartsDiffer(t *testing.T) {
+	dir := t.TempDir()
+	for name, from := range map[string]string{"part-0000.parquet": "testdata/clinic.parquet", "part-0001.parquet": "testdata/typed.parquet", "notes.txt": "testdata/typed.json"} {
+		b, err := os.ReadFile(from)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, name), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, err := parquetfile.Read(context.Background(), dir, nil)
+	if want := "parquetfile: part-0001.parquet has 6 columns, the first part 7"; err == nil || err.Error() != want || !errors.Is(err, parquetfile.ErrFile) {
+		t.Fatalf("error %v, want %s", err, want)
 	}
 }
 
