@@ -1,6 +1,7 @@
 package table
 
 import (
+	"bytes"
 	"fmt"
 	"math"
 	"slices"
@@ -252,7 +253,7 @@ func (b *Builder) text(j int, f []byte) error {
 	if len(f) > b.maxField {
 		return b.fail(j, i, badData("text longer than %d bytes", b.maxField))
 	}
-	f = trimSpace(f)
+	f = bytes.TrimSpace(f) // as ReadCSV trims a cell
 	x, class := classify(f, b.codes, '.', &b.scratch)
 	switch class {
 	case numberCell:
@@ -266,16 +267,6 @@ func (b *Builder) text(j int, f []byte) error {
 	}
 	c.x = append(c.x, x)
 	return b.checkRows(j)
-}
-
-func trimSpace(f []byte) []byte {
-	for len(f) > 0 && (f[0] == ' ' || f[0] == '\t' || f[0] == '\n' || f[0] == '\r' || f[0] == '\v' || f[0] == '\f') {
-		f = f[1:]
-	}
-	for n := len(f); n > 0 && (f[n-1] == ' ' || f[n-1] == '\t' || f[n-1] == '\n' || f[n-1] == '\r' || f[n-1] == '\v' || f[n-1] == '\f'); n = len(f) {
-		f = f[:n-1]
-	}
-	return f
 }
 
 func (b *Builder) checkRows(j int) error {
