@@ -280,13 +280,7 @@ func (b *Builder) checkRows(j int) error {
 // none) and row i (0-based, counted over all parts; -1 for none), for a
 // reader that finds a problem the Builder cannot see, such as a value of
 // an unsupported type.
-func (b *Builder) Fail(j, i int, err error) error {
-	e := b.fail(j, i, err).(*SourceError)
-	if j < 0 {
-		e.Column, e.Name = 0, ""
-	}
-	return e
-}
+func (b *Builder) Fail(j, i int, err error) error { return b.fail(j, i, err) }
 
 func (b *Builder) fail(j, i int, err error, fixes ...Fix) error {
 	e := &SourceError{Err: err, Fixes: fixes}
