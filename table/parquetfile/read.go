@@ -132,12 +132,20 @@ type source struct {
 
 // open opens a file's footer and checks its columns against want (nil
 // for the first file).
-func open(s source, want []column) (*parquet.File, []column, error) {
-	f, err := openFile(s)
+func open(s source, want []column) (f *parquet.File, cols []column, err error) {
+	defer func() {
+		// The Parquet library panics on some corrupt footers and schemas
+		// (found by FuzzReadFrom): that is a bad file, reported as such,
+		// not a crash of the caller.
+		if p := recover(); p != nil {
+			f, cols, err = nil, nil, badFile("%s: corrupt footer or schema (%v)", s.name, p)
+		}
+	}()
+	f, err = openFile(s)
 	if err != nil {
 		return nil, nil, err
 	}
-	cols, err := schema(s.name, f.Schema())
+	cols, err = schema(s.name, f.Schema())
 	if err != nil {
 		return nil, nil, err
 	}
@@ -156,7 +164,7 @@ func open(s source, want []column) (*parquet.File, []column, error) {
 
 // openFile opens the file's footer. The magic bytes are checked here so
 // that a file that is not Parquet at all gets a plain message.
-func openFile(s source) (f *parquet.File, err error) {
+func openFile(s source) (*parquet.File, error) {
 	const magic = "PAR1"
 	var head, tail [4]byte
 	if s.size < 12 {
@@ -174,14 +182,7 @@ func openFile(s source) (f *parquet.File, err error) {
 	case string(tail[:]) != magic:
 		return nil, badFile("%s: the file does not end with %q: truncated, or still being written", s.name, magic)
 	}
-	defer func() {
-		// The Parquet library may panic on a corrupt footer; that is a
-		// bad file, reported as such, not a crash of the caller.
-		if p := recover(); p != nil {
-			f, err = nil, badFile("%s: corrupt footer (%v)", s.name, p)
-		}
-	}()
-	f, err = parquet.OpenFile(s.r, s.size, parquet.SkipPageIndex(true), parquet.SkipBloomFilters(true), parquet.ReadBufferSize(1<<20))
+	f, err := parquet.OpenFile(s.r, s.size, parquet.SkipPageIndex(true), parquet.SkipBloomFilters(true), parquet.ReadBufferSize(1<<20))
 	if err != nil {
 		return nil, badFile("%s: not a readable Parquet file: %v", s.name, err)
 	}
@@ -307,9 +308,23 @@ func read(ctx context.Context, parts []source, opts *table.ReadOptions) (*table.
 	}
 	b, err := table.NewBuilder(names, opts, "row")
 	if err != nil {
-		return nil, err
+		var se *table.SourceError
+		if errors.As(err, &se) {
+			se.Part = parts[0].name
+			return nil, se
+		}
+		return nil, fmt.Errorf("parquetfile: %s: %w", parts[0].name, err)
 	}
-	if total > 0 && total < math.MaxInt32 {
+	// The footers' row counts size the columns once, unless they claim
+	// more than the files could plausibly hold: 16 bytes of columns per
+	// byte of file (a damaged or hostile footer must not make the reader
+	// reserve memory out of proportion to its input; real data that
+	// compress better still fit, the columns then grow as they fill).
+	size := int64(0)
+	for _, p := range parts {
+		size += p.size
+	}
+	if limit := (16*size + 16<<20) / int64(8*len(cols)); total > 0 && total <= limit {
 		b.Grow(int(total))
 	}
 	buf := make([]parquet.Value, 4096)
@@ -325,7 +340,7 @@ func read(ctx context.Context, parts []source, opts *table.ReadOptions) (*table.
 			}
 			first := b.Rows(0)
 			for j, ch := range chunks {
-				if err := readChunk(b, j, cols[j], ch, buf); err != nil {
+				if err := readChunk(b, j, cols[j], ch, buf, first+int(rg.NumRows())); err != nil {
 					var se *table.SourceError
 					if errors.As(err, &se) {
 						return nil, err
@@ -342,10 +357,12 @@ func read(ctx context.Context, parts []source, opts *table.ReadOptions) (*table.
 }
 
 // readChunk feeds the values of one column chunk to column j of b, page
-// by page.
-func readChunk(b *table.Builder, j int, c column, ch parquet.ColumnChunk, buf []parquet.Value) (err error) {
+// by page, until the column holds end rows; a chunk with more values than
+// its row group's rows is an error.
+func readChunk(b *table.Builder, j int, c column, ch parquet.ColumnChunk, buf []parquet.Value, end int) (err error) {
 	defer func() {
-		// The Parquet library may panic on corrupt pages: a bad file.
+		// The Parquet library panics on some corrupt pages (found by
+		// TestReadBadBytes): a bad file, not a crash of the caller.
 		if p := recover(); p != nil {
 			err = fmt.Errorf("corrupt data (%v)", p)
 		}
@@ -359,6 +376,10 @@ func readChunk(b *table.Builder, j int, c column, ch parquet.ColumnChunk, buf []
 		}
 		if err != nil {
 			return err
+		}
+		if n := page.NumValues(); n < 0 || int64(b.Rows(j))+n > int64(end) {
+			parquet.Release(page)
+			return fmt.Errorf("a page holds %d values, more than the row group's rows", n)
 		}
 		err = readPage(b, j, c, page, buf)
 		parquet.Release(page)
