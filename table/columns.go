@@ -4,84 +4,69 @@ import (
 	"bytes"
 	"errors"
 	"fmt"
-	"io"
-	"math"
 	"slices"
 	"strconv"
 	"strings"
 )
 
-// read runs ReadCSV: the header, the blocks, then each column's kind.
-func (rd *reader) read(r io.Reader) (*Dataset, error) {
-	src := &source{r: r, size: sizeOf(r)}
-	buf := src.fill(make([]byte, 0, blockSize), blockSize)
-	for !src.eof && safeCut(buf) < 0 {
-		if len(buf) > rd.maxLine+blockSize {
-			return nil, &CSVError{Line: 1, Err: badCSV("line longer than %d bytes", rd.maxLine)}
-		}
-		buf = src.fill(buf, 2*len(buf))
+// rules are the settings, common to every reader, that decide a column's
+// kind, levels and coding.
+type rules struct {
+	reference, codedOne map[string]string
+	asIs                []string
+	maxLevels           int
+	point               byte // the decimal separator of numbers written as text
+	csv                 bool // fixes may name CSVOptions.DecimalComma
+}
+
+// naming names the rows of a source in messages by their keys: file lines
+// for CSV, 0-based rows for the other readers.
+type naming interface {
+	row(k int) string     // "line 12"
+	rows(ks []int) string // "lines 7, 19"
+}
+
+// lineNaming names the rows of a CSV file by their lines.
+type lineNaming struct{}
+
+func (lineNaming) row(k int) string { return "line " + strconv.Itoa(k) }
+
+func (lineNaming) rows(ks []int) string {
+	if len(ks) == 1 {
+		return lineNaming{}.row(ks[0])
 	}
-	if src.err != nil {
-		return nil, src.err
+	return "lines " + joinInts(ks)
+}
+
+func joinInts(ks []int) string {
+	s := make([]string, len(ks))
+	for i, k := range ks {
+		s[i] = strconv.Itoa(k)
 	}
-	pos, line := 0, 1
-	for pos < len(buf) && blank(buf, pos) > 0 {
-		pos += blank(buf, pos)
-		line++
+	return strings.Join(s, ", ")
+}
+
+// noRow is the key of a problem that concerns a whole column.
+const noRow = -1
+
+// columnIn is one column's cells as a reader hands them to rules.decide.
+type columnIn struct {
+	name   string
+	col    []float64  // the numbers, true and false as 1 and 0; NaN for missing and text cells
+	texts  []*colText // the text and true/false cells, in one or more spans of rows
+	textAt func(i int) string
+	keys   []int // the key of each row; nil means the row's index
+	naming naming
+	// fail returns the reader's error at the row with key k (noRow for
+	// none).
+	fail func(k int, err error, fixes ...Fix) error
+}
+
+func (in *columnIn) key(i int) int {
+	if in.keys == nil {
+		return i
 	}
-	if pos == len(buf) {
-		return nil, &CSVError{Line: 1, Err: badCSV("empty file, expected a header row")}
-	}
-	p := &parser{rd: rd}
-	fields, next, nextLine, err := p.nextRecord(buf, pos, line)
-	if err != nil {
-		return nil, err
-	}
-	if err := rd.header(fields, buf[pos:next]); err != nil {
-		return nil, err
-	}
-	blocks, cols, err := rd.stream(src, buf[next:], nextLine, int64(len(buf)))
-	if err != nil {
-		return nil, err
-	}
-	rows := 0
-	for _, b := range blocks {
-		if b.err != nil {
-			return nil, b.err
-		}
-		if rd.o.MaxRows > 0 && rows+b.rows > rd.o.MaxRows {
-			return nil, &CSVError{Line: b.lines[rd.o.MaxRows-rows], Err: badCSV("more than %d rows", rd.o.MaxRows)}
-		}
-		rows += b.rows
-	}
-	if rows == 0 {
-		return nil, &CSVError{Line: nextLine, Err: badCSV("header only, no data rows")}
-	}
-	gaps := false
-	for _, b := range blocks {
-		gaps = gaps || b.rows < b.bound
-	}
-	for j, c := range cols {
-		if gaps {
-			// Blank lines or quoted line breaks: close the gaps.
-			at := 0
-			for _, b := range blocks {
-				at += copy(c[at:], c[b.off:b.off+b.rows])
-			}
-		}
-		cols[j] = c[:rows:rows]
-	}
-	d := &Dataset{rows: rows, lines: make([]int, 0, rows)}
-	for _, b := range blocks {
-		d.lines = append(d.lines, b.lines...)
-	}
-	for j := range rd.names {
-		if err := rd.column(d, blocks, cols[j], j); err != nil {
-			return nil, err
-		}
-		cols[j] = nil
-	}
-	return d, nil
+	return in.keys[i]
 }
 
 // colStats sums one column's counts over the blocks and keeps its first
@@ -91,30 +76,26 @@ type colStats struct {
 	firstText, firstNum, firstOdd, firstB []cellRef
 }
 
-func (rd *reader) stats(blocks []*block, col []float64, lines []int, j int) colStats {
+func stats(in *columnIn) colStats {
 	var s colStats
-	for _, b := range blocks {
-		if b.text == nil {
-			continue
-		}
-		c := &b.text[j]
+	for _, c := range in.texts {
 		s.nText += c.nText
 		s.nBool += c.nBool
 		s.firstText = appendKeep(s.firstText, c.firstText)
 		s.firstB = appendKeep(s.firstB, c.firstBool)
 	}
-	for i, x := range col {
+	for i, x := range in.col {
 		if x != x {
 			continue
 		}
 		s.nNum++
 		if len(s.firstNum) < keep {
-			s.firstNum = append(s.firstNum, cellRef{lines[i], strconv.FormatFloat(x, 'g', -1, 64)})
+			s.firstNum = append(s.firstNum, cellRef{in.key(i), strconv.FormatFloat(x, 'g', -1, 64)})
 		}
 		if x != 0 && x != 1 {
 			s.nOdd++
 			if len(s.firstOdd) < keep {
-				s.firstOdd = append(s.firstOdd, cellRef{lines[i], strconv.FormatFloat(x, 'g', -1, 64)})
+				s.firstOdd = append(s.firstOdd, cellRef{in.key(i), strconv.FormatFloat(x, 'g', -1, 64)})
 			}
 		}
 	}
@@ -135,14 +116,13 @@ func appendKeep(a, b []cellRef) []cellRef {
 // typos: at most five and at most 1% of the column.
 func few(k, n int) bool { return k > 0 && k <= 5 && 100*k <= n }
 
-// column decides column j's kind from its cells and adds it to d.
-func (rd *reader) column(d *Dataset, blocks []*block, col []float64, j int) error {
-	name := rd.names[j]
-	s := rd.stats(blocks, col, d.lines, j)
-	asIs := rd.asIs(j)
-	fail := func(line int, err error, fixes ...Fix) error {
-		return &CSVError{Line: line, Column: j + 1, Name: name, Err: err, Fixes: fixes}
-	}
+// decide decides a column's kind from its cells, checks it for odd
+// cells, and adds it to d. It is the one place where every reader's
+// columns get their kind, levels, coding and missing values.
+func (ru *rules) decide(d *Dataset, in *columnIn) error {
+	name, fail := in.name, in.fail
+	s := stats(in)
+	asIs := slices.Contains(ru.asIs, name)
 	present := s.nNum + s.nText
 	text := s.nText > 0
 	if !text && s.nBool > 0 && s.nOdd > 0 {
@@ -151,14 +131,14 @@ func (rd *reader) column(d *Dataset, blocks []*block, col []float64, j int) erro
 	}
 	switch {
 	case text && s.nNum > 0 && !asIs:
-		return rd.mixed(s, present, j, fail)
+		return ru.mixed(s, present, in)
 	case !text && few(s.nOdd, present) && s.nOdd < present && !asIs:
 		first := s.firstOdd[0]
 		var msg string
 		if s.nOdd == 1 {
 			msg = fmt.Sprintf("%s is neither 0 nor 1, and the column's other %d values are", first.value, present-1)
 		} else {
-			msg = fmt.Sprintf("%d values are neither 0 nor 1, and the column's other %d values are: %s", s.nOdd, present-s.nOdd, cellList(s.firstOdd, s.nOdd, false))
+			msg = fmt.Sprintf("%d values are neither 0 nor 1, and the column's other %d values are: %s", s.nOdd, present-s.nOdd, cellList(in.naming, s.firstOdd, s.nOdd, false))
 		}
 		return fail(first.line, badData("%s", msg), append(codeFixes(s.firstOdd, true), Fix{"AsIs", name, "to read the column as continuous"})...)
 	case !text:
@@ -172,51 +152,46 @@ func (rd *reader) column(d *Dataset, blocks []*block, col []float64, j int) erro
 		default:
 			v.Kind, v.Levels = Binary, []string{"0", "1"}
 		}
-		d.addVariable(v, [][]float64{col})
-		return rd.coding(d, j, fail)
+		d.addVariable(v, [][]float64{in.col})
+		return ru.coding(d, in)
 	}
-	values := make([]string, 0, d.rows)
-	for _, b := range blocks {
-		for i := range b.rows {
-			x := col[len(values)]
-			switch t := b.textAt(j, i); {
-			case t != "":
-				values = append(values, t)
-			case math.IsNaN(x):
-				values = append(values, "")
-			default:
-				values = append(values, strconv.FormatFloat(x, 'g', -1, 64))
-			}
+	values := make([]string, len(in.col))
+	for i, x := range in.col {
+		switch t := in.textAt(i); {
+		case t != "":
+			values[i] = t
+		case x == x:
+			values[i] = strconv.FormatFloat(x, 'g', -1, 64)
 		}
 	}
-	if err := rd.checkText(values, d.lines, s, j, asIs, fail); err != nil {
+	if err := ru.checkText(values, s, in, asIs); err != nil {
 		return err
 	}
-	if err := d.AddText(name, values, rd.o.MaxLevels); err != nil {
+	if err := d.AddText(name, values, ru.maxLevels); err != nil {
 		var fixes []Fix
 		if strings.Contains(err.Error(), "distinct text values") {
 			fixes = append(fixes, Fix{"MaxLevels", "", "if the column is a variable with that many levels"})
 		}
 		return fail(s.firstText[0].line, unprefix(err), fixes...)
 	}
-	return rd.coding(d, j, fail)
+	return ru.coding(d, in)
 }
 
-// coding applies the options Reference and CodedOne to column j, the
+// coding applies the options Reference and CodedOne to the column, the
 // last variable of d.
-func (rd *reader) coding(d *Dataset, j int, fail func(int, error, ...Fix) error) error {
-	name := rd.names[j]
-	if l, ok := rd.o.Reference[name]; ok {
+func (ru *rules) coding(d *Dataset, in *columnIn) error {
+	name, fail := in.name, in.fail
+	if l, ok := ru.reference[name]; ok {
 		if err := d.SetReference(name, l); err != nil {
-			return fail(1, unprefix(err))
+			return fail(noRow, unprefix(err))
 		}
 	}
-	if l, ok := rd.o.CodedOne[name]; ok {
+	if l, ok := ru.codedOne[name]; ok {
 		if err := d.SetCodedOne(name, l); err != nil {
-			return fail(1, unprefix(err))
+			return fail(noRow, unprefix(err))
 		}
-		if ref, both := rd.o.Reference[name]; both && ref == l {
-			return fail(1, badData("%q is given both as the reference and as the level coded 1", l))
+		if ref, both := ru.reference[name]; both && ref == l {
+			return fail(noRow, badData("%q is given both as the reference and as the level coded 1", l))
 		}
 	}
 	return nil
@@ -235,8 +210,8 @@ func unprefix(err error) error {
 }
 
 // mixed returns the error for a column of numbers and text.
-func (rd *reader) mixed(s colStats, present, j int, fail func(int, error, ...Fix) error) error {
-	name := rd.names[j]
+func (ru *rules) mixed(s colStats, present int, in *columnIn) error {
+	name, fail := in.name, in.fail
 	asIs := Fix{"AsIs", name, "to read the column as text"}
 	if s.nText <= s.nNum {
 		first := s.firstText[0]
@@ -250,11 +225,11 @@ func (rd *reader) mixed(s colStats, present, j int, fail func(int, error, ...Fix
 			msg += " (0 and 1)"
 		}
 		if s.nText > 1 {
-			msg += ": " + cellList(s.firstText, s.nText, true)
+			msg += ": " + cellList(in.naming, s.firstText, s.nText, true)
 		}
 		fixes := codeFixes(s.firstText, false)
 		for _, c := range s.firstText {
-			if rd.point == '.' && otherPoint(c.value, ',') {
+			if ru.csv && ru.point == '.' && otherPoint(c.value, ',') {
 				fixes = append(fixes, Fix{"DecimalComma", "", "if the file writes decimals with a comma"})
 				break
 			}
@@ -280,7 +255,7 @@ func (rd *reader) mixed(s colStats, present, j int, fail func(int, error, ...Fix
 	}
 	msg += ")"
 	if s.nNum > 1 {
-		msg += ": " + cellList(s.firstNum, s.nNum, true)
+		msg += ": " + cellList(in.naming, s.firstNum, s.nNum, true)
 	}
 	return fail(first.line, badData("%s", msg), asIs)
 }
@@ -296,14 +271,14 @@ func containsString(list []string, s string) bool {
 
 // cellList lists cells as `"x" (line 3), "y" (line 9)`, with an ellipsis
 // when there are more than listed.
-func cellList(cells []cellRef, total int, quote bool) string {
+func cellList(nm naming, cells []cellRef, total int, quote bool) string {
 	parts := make([]string, len(cells))
 	for i, c := range cells {
 		v := c.value
 		if quote {
 			v = strconv.Quote(v)
 		}
-		parts[i] = fmt.Sprintf("%s (line %d)", v, c.line)
+		parts[i] = fmt.Sprintf("%s (%s)", v, nm.row(c.line))
 	}
 	if total > len(cells) {
 		parts = append(parts, "…")
@@ -357,10 +332,10 @@ func otherPoint(v string, point byte) bool {
 // checkText looks for the signs of a mistake in a text column: numbers
 // with the other decimal separator, levels that differ only in case, and
 // rare levels.
-func (rd *reader) checkText(values []string, lines []int, s colStats, j int, asIs bool, fail func(int, error, ...Fix) error) error {
-	name := rd.names[j]
+func (ru *rules) checkText(values []string, s colStats, in *columnIn, asIs bool) error {
+	name, fail := in.name, in.fail
 	other := byte(',')
-	if rd.point == ',' {
+	if ru.point == ',' {
 		other = '.'
 	}
 	allNum := len(s.firstText) > 0
@@ -371,9 +346,12 @@ func (rd *reader) checkText(values []string, lines []int, s colStats, j int, asI
 	}
 	if allNum {
 		c := s.firstText[0]
-		if rd.point == '.' {
+		switch {
+		case ru.point == '.' && ru.csv:
 			return fail(c.line, badData("values such as %q are numbers written with a decimal comma", c.value),
 				Fix{"DecimalComma", "", "if the file writes decimals with a comma"})
+		case ru.point == '.':
+			return fail(c.line, badData("values such as %q are numbers written with a decimal comma; convert the column to numbers at the source", c.value))
 		}
 		return fail(c.line, badData("values such as %q are numbers written with a decimal point, but DecimalComma is set", c.value))
 	}
@@ -381,13 +359,13 @@ func (rd *reader) checkText(values []string, lines []int, s colStats, j int, asI
 		return nil
 	}
 	levels, count := levelCounts(values)
-	if len(levels) > rd.o.MaxLevels {
+	if len(levels) > ru.maxLevels {
 		return nil // AddText reports it
 	}
 	firstLine := map[string]int{}
 	for i, v := range values {
 		if _, ok := firstLine[v]; !ok && v != "" {
-			firstLine[v] = lines[i]
+			firstLine[v] = in.key(i)
 		}
 	}
 	byFold := map[string]string{}
@@ -398,7 +376,7 @@ func (rd *reader) checkText(values []string, lines []int, s colStats, j int, asI
 			if firstLine[b] < firstLine[a] {
 				a, b = b, a
 			}
-			return fail(firstLine[b], badData("%q (first on line %d) and %q (first on line %d) differ only in case", b, firstLine[b], a, firstLine[a]),
+			return fail(firstLine[b], badData("%q (first on %s) and %q (first on %s) differ only in case", b, in.naming.row(firstLine[b]), a, in.naming.row(firstLine[a])),
 				Fix{"AsIs", name, "to keep them as separate levels"})
 		}
 		byFold[k] = l
@@ -433,11 +411,11 @@ func (rd *reader) checkText(values []string, lines []int, s colStats, j int, asI
 	var msg string
 	if len(rare) == 1 {
 		l := rare[0]
-		msg = fmt.Sprintf("%q appears only %s (%s) among %d values; the others are %s", l, times(count[l]), linesOf(l, values, lines), present, others)
+		msg = fmt.Sprintf("%q appears only %s (%s) among %d values; the others are %s", l, times(count[l]), linesOf(l, values, in), present, others)
 	} else {
 		parts := make([]string, len(rare))
 		for i, l := range rare {
-			parts[i] = fmt.Sprintf("%q (%s)", l, linesOf(l, values, lines))
+			parts[i] = fmt.Sprintf("%q (%s)", l, linesOf(l, values, in))
 		}
 		msg = fmt.Sprintf("rare values among %d: %s; the others are %s", present, strings.Join(parts, ", "), others)
 	}
@@ -462,18 +440,15 @@ func times(n int) string {
 	return fmt.Sprintf("%d times", n)
 }
 
-// linesOf names the lines holding level l: "line 7" or "lines 7, 19".
-func linesOf(l string, values []string, lines []int) string {
-	var at []string
+// linesOf names the rows holding level l: "line 7" or "lines 7, 19".
+func linesOf(l string, values []string, in *columnIn) string {
+	var at []int
 	for i, v := range values {
 		if v == l {
-			at = append(at, strconv.Itoa(lines[i]))
+			at = append(at, in.key(i))
 		}
 	}
-	if len(at) == 1 {
-		return "line " + at[0]
-	}
-	return "lines " + strings.Join(at, ", ")
+	return in.naming.rows(at)
 }
 
 func sortByLine(levels []string, firstLine map[string]int) {

@@ -74,7 +74,7 @@ type Fix struct {
 
 // Error implements the error interface; fixes are written as CSVOptions
 // settings.
-func (e *CSVError) Error() string { return "table: " + e.Describe(libraryFix) }
+func (e *CSVError) Error() string { return "table: " + e.Describe(csvFix) }
 
 // Describe returns the message without the package prefix, writing each
 // fix with option, which lets a program name its own settings (a
@@ -89,10 +89,17 @@ func (e *CSVError) Describe(option func(Fix) string) string {
 	default:
 		fmt.Fprintf(&b, "CSV line %d: %v", e.Line, e.Err)
 	}
-	for i, f := range e.Fixes {
+	writeFixes(&b, e.Fixes, e.Column > 0, "correct the file", option)
+	return b.String()
+}
+
+// writeFixes writes the fixes of an error after its message; about a
+// cell, they are offered besides correcting the source.
+func writeFixes(b *strings.Builder, fixes []Fix, cell bool, correct string, option func(Fix) string) {
+	for i, f := range fixes {
 		switch {
-		case i == 0 && e.Column > 0:
-			b.WriteString("; correct the file, or ")
+		case i == 0 && cell:
+			b.WriteString("; " + correct + ", or ")
 		case i == 0:
 			b.WriteString("; ")
 		default:
@@ -103,21 +110,23 @@ func (e *CSVError) Describe(option func(Fix) string) string {
 			b.WriteString(" (" + f.When + ")")
 		}
 	}
-	return b.String()
 }
 
-func libraryFix(f Fix) string {
+func csvFix(f Fix) string { return optionFix("CSVOptions", f) }
+
+// optionFix writes a fix as a setting of the options struct typ.
+func optionFix(typ string, f Fix) string {
 	switch f.Option {
 	case "Comma":
-		return fmt.Sprintf("set CSVOptions.Comma to %s", strconv.QuoteRune(rune(f.Value[0])))
+		return fmt.Sprintf("set %s.Comma to %s", typ, strconv.QuoteRune(rune(f.Value[0])))
 	case "DecimalComma":
-		return "set CSVOptions.DecimalComma"
+		return "set " + typ + ".DecimalComma"
 	case "MissingCodes":
-		return fmt.Sprintf("add %q to CSVOptions.MissingCodes", f.Value)
+		return fmt.Sprintf("add %q to %s.MissingCodes", f.Value, typ)
 	case "AsIs":
-		return fmt.Sprintf("add %q to CSVOptions.AsIs", f.Value)
+		return fmt.Sprintf("add %q to %s.AsIs", f.Value, typ)
 	case "MaxLevels":
-		return "raise CSVOptions.MaxLevels"
+		return "raise " + typ + ".MaxLevels"
 	}
 	return f.Option + " " + f.Value
 }
@@ -176,6 +185,7 @@ func ReadCSV(r io.Reader, opts *CSVOptions) (*Dataset, error) {
 // reader holds one ReadCSV call's resolved settings.
 type reader struct {
 	o       CSVOptions
+	rules   rules
 	comma   byte
 	point   byte
 	codes   map[string]bool
@@ -224,6 +234,7 @@ func newReader(opts *CSVOptions) (*reader, error) {
 			rd.numCode = true
 		}
 	}
+	rd.rules = rules{reference: o.Reference, codedOne: o.CodedOne, asIs: o.AsIs, maxLevels: o.MaxLevels, point: rd.point, csv: true}
 	rd.workers = o.Workers
 	if rd.workers <= 0 {
 		rd.workers = runtime.GOMAXPROCS(0)
@@ -238,36 +249,59 @@ func (rd *reader) header(fields [][]byte, raw []byte) error {
 			return err
 		}
 	}
-	if len(fields) > rd.o.MaxColumns {
-		return &CSVError{Line: 1, Err: badCSV("%d columns, more than the limit of %d", len(fields), rd.o.MaxColumns)}
-	}
-	seen := make(map[string]int, len(fields))
 	rd.names = make([]string, len(fields))
 	for j, f := range fields {
 		h := string(f)
 		if j == 0 {
 			h = strings.TrimPrefix(h, "\ufeff")
 		}
-		h = strings.TrimSpace(h)
+		rd.names[j] = strings.TrimSpace(h)
+	}
+	if j, dup, err := checkNames(rd.names, rd.o.MaxColumns, rd.o.MaxFieldBytes, ErrCSV); err != nil {
+		e := &CSVError{Line: 1, Column: j, Err: err}
+		if dup {
+			e.Name = rd.names[j-1]
+		}
+		return e
+	}
+	return checkOptionNames(rd.names, "CSVOptions", "the file", rd.o.Reference, rd.o.CodedOne, rd.o.AsIs, ErrCSV)
+}
+
+// checkNames checks the column names of a source: how many, none empty
+// or longer than maxBytes, none twice. It returns the 1-based column at
+// fault (0 when the problem is their number), whether the name is used
+// twice, and the problem, wrapping sentinel.
+func checkNames(names []string, maxColumns, maxBytes int, sentinel error) (int, bool, error) {
+	if len(names) > maxColumns {
+		return 0, false, &problem{sentinel, fmt.Sprintf("%d columns, more than the limit of %d", len(names), maxColumns)}
+	}
+	seen := make(map[string]int, len(names))
+	for j, h := range names {
 		if h == "" {
-			return &CSVError{Line: 1, Column: j + 1, Err: badCSV("empty column name")}
+			return j + 1, false, &problem{sentinel, "empty column name"}
 		}
 		if k, dup := seen[h]; dup {
-			return &CSVError{Line: 1, Column: j + 1, Name: h, Err: badCSV("name also used by column %d", k+1)}
+			return j + 1, true, &problem{sentinel, fmt.Sprintf("name also used by column %d", k+1)}
 		}
-		if len(h) > rd.o.MaxFieldBytes {
-			return &CSVError{Line: 1, Column: j + 1, Err: badCSV("name longer than %d bytes", rd.o.MaxFieldBytes)}
+		if len(h) > maxBytes {
+			return j + 1, false, &problem{sentinel, fmt.Sprintf("name longer than %d bytes", maxBytes)}
 		}
 		seen[h] = j
-		rd.names[j] = h
 	}
+	return 0, false, nil
+}
+
+// checkOptionNames returns an error when the options Reference, CodedOne
+// or AsIs of the options struct typ name a column that src (such as "the
+// file") does not have.
+func checkOptionNames(names []string, typ, src string, reference, codedOne map[string]string, asIs []string, sentinel error) error {
 	for _, opt := range []struct {
 		field string
 		names []string
-	}{{"Reference", mapKeys(rd.o.Reference)}, {"CodedOne", mapKeys(rd.o.CodedOne)}, {"AsIs", rd.o.AsIs}} {
+	}{{"Reference", mapKeys(reference)}, {"CodedOne", mapKeys(codedOne)}, {"AsIs", asIs}} {
 		for _, n := range opt.names {
-			if _, ok := seen[n]; !ok {
-				return fmt.Errorf("%w: CSVOptions.%s names %q, which is not a column of the file (columns: %s)", ErrCSV, opt.field, n, listNames(rd.names, 12))
+			if !slices.Contains(names, n) {
+				return fmt.Errorf("%w: %s.%s names %q, which is not a column of %s (columns: %s)", sentinel, typ, opt.field, n, src, listNames(names, 12))
 			}
 		}
 	}
@@ -333,4 +367,102 @@ func (rd *reader) separatorHint(raw []byte) error {
 		Fixes: []Fix{{Option: "Comma", Value: string(best)}}}
 }
 
-func (rd *reader) asIs(j int) bool { return slices.Contains(rd.o.AsIs, rd.names[j]) }
+// read runs ReadCSV: the header, the blocks, then each column's kind.
+func (rd *reader) read(r io.Reader) (*Dataset, error) {
+	src := &source{r: r, size: sizeOf(r)}
+	buf := src.fill(make([]byte, 0, blockSize), blockSize)
+	for !src.eof && safeCut(buf) < 0 {
+		if len(buf) > rd.maxLine+blockSize {
+			return nil, &CSVError{Line: 1, Err: badCSV("line longer than %d bytes", rd.maxLine)}
+		}
+		buf = src.fill(buf, 2*len(buf))
+	}
+	if src.err != nil {
+		return nil, src.err
+	}
+	pos, line := 0, 1
+	for pos < len(buf) && blank(buf, pos) > 0 {
+		pos += blank(buf, pos)
+		line++
+	}
+	if pos == len(buf) {
+		return nil, &CSVError{Line: 1, Err: badCSV("empty file, expected a header row")}
+	}
+	p := &parser{rd: rd}
+	fields, next, nextLine, err := p.nextRecord(buf, pos, line)
+	if err != nil {
+		return nil, err
+	}
+	if err := rd.header(fields, buf[pos:next]); err != nil {
+		return nil, err
+	}
+	blocks, cols, err := rd.stream(src, buf[next:], nextLine, int64(len(buf)))
+	if err != nil {
+		return nil, err
+	}
+	rows := 0
+	for _, b := range blocks {
+		if b.err != nil {
+			return nil, b.err
+		}
+		if rd.o.MaxRows > 0 && rows+b.rows > rd.o.MaxRows {
+			return nil, &CSVError{Line: b.lines[rd.o.MaxRows-rows], Err: badCSV("more than %d rows", rd.o.MaxRows)}
+		}
+		rows += b.rows
+	}
+	if rows == 0 {
+		return nil, &CSVError{Line: nextLine, Err: badCSV("header only, no data rows")}
+	}
+	gaps := false
+	for _, b := range blocks {
+		gaps = gaps || b.rows < b.bound
+	}
+	for j, c := range cols {
+		if gaps {
+			// Blank lines or quoted line breaks: close the gaps.
+			at := 0
+			for _, b := range blocks {
+				at += copy(c[at:], c[b.off:b.off+b.rows])
+			}
+		}
+		cols[j] = c[:rows:rows]
+	}
+	d := &Dataset{rows: rows, lines: make([]int, 0, rows)}
+	for _, b := range blocks {
+		d.lines = append(d.lines, b.lines...)
+	}
+	for j := range rd.names {
+		if err := rd.rules.decide(d, rd.columnIn(d, blocks, cols[j], j)); err != nil {
+			return nil, err
+		}
+		cols[j] = nil
+	}
+	return d, nil
+}
+
+// columnIn hands column j of the blocks to rules.decide.
+func (rd *reader) columnIn(d *Dataset, blocks []*block, col []float64, j int) *columnIn {
+	in := &columnIn{name: rd.names[j], col: col, keys: d.lines, naming: lineNaming{}}
+	for _, b := range blocks {
+		if b.text != nil {
+			in.texts = append(in.texts, &b.text[j])
+		}
+	}
+	// decide asks for the text cells in row order: a cursor over the
+	// blocks finds each.
+	bi, start := 0, 0
+	in.textAt = func(i int) string {
+		for i >= start+blocks[bi].rows {
+			start += blocks[bi].rows
+			bi++
+		}
+		return blocks[bi].textAt(j, i-start)
+	}
+	in.fail = func(line int, err error, fixes ...Fix) error {
+		if line == noRow {
+			line = 1
+		}
+		return &CSVError{Line: line, Column: j + 1, Name: rd.names[j], Err: err, Fixes: fixes}
+	}
+	return in
+}

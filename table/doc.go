@@ -1,8 +1,8 @@
 // Package table holds the data a discovery runs on: a Dataset of named
 // variables stored column-major, each with a kind (continuous, binary or
 // categorical) and, for binary and categorical variables, its levels and
-// coding; readers that build a Dataset from CSV; and the detection of
-// missing values.
+// coding; readers that build a Dataset from CSV and from database
+// results; and the detection of missing values.
 //
 // A numeric column whose present values are all 0 or 1 is binary, any
 // other numeric column continuous. A text column with two values is
@@ -21,6 +21,14 @@
 // the column as it is). It parses the file's bytes directly, in blocks on
 // several goroutines, with a number parser that gives exactly
 // strconv.ParseFloat's result.
+//
+// ReadRows reads a database/sql query result the same way, and Builder
+// is the one place where every reader's cells become columns: CSV,
+// database results and Parquet files (package parquetfile) give the same
+// Dataset for the same table, with the same checks, limits and messages
+// (naming a CSV line, a result row, or a row of a file). Typed sources
+// keep their types: booleans are binary, numbers numeric, text read by
+// its values as CSV text is, and nulls missing.
 //
 // Missing values are NaN; Missing lists them per variable (by file line
 // for data read from CSV) and Present gives the rows where a set of

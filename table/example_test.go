@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"log"
+	"math"
 	"strings"
 
 	"github.com/antecedent-lab/antecedent/table"
@@ -88,4 +89,38 @@ func ExampleDataset_SetReference() {
 	// "early", "middle" each vs "late" (reference)
 	// stage=early "early" vs "late" [1 0 1 0 1]
 	// stage=middle "middle" vs "late" [0 0 0 1 0]
+}
+
+// ExampleBuilder feeds typed cells, as a reader of a typed source does:
+// the column of booleans becomes binary false/true, the text column's
+// levels are decided as ReadCSV decides them, and a null is missing.
+func ExampleBuilder() {
+	b, err := table.NewBuilder([]string{"dose", "treated", "arm"}, nil, "result row")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	doses := []float64{1.5, 2, math.NaN(), 3.25}
+	arms := []string{"control", "drug", "drug", "placebo"}
+	for i := range 4 {
+		b.Number(0, doses[i])
+		if i == 2 {
+			b.Missing(1)
+		} else {
+			b.Bool(1, i%2 == 1)
+		}
+		b.Text(2, arms[i])
+	}
+	d, err := b.Dataset()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, v := range d.Variables() {
+		fmt.Println(strings.TrimSpace(fmt.Sprintf("%s: %v %s", v.Name, v.Kind, v.Coding())))
+	}
+	// Output:
+	// dose: continuous
+	// treated: binary "true" = 1, "false" = 0 (reference)
+	// arm: categorical "drug", "placebo" each vs "control" (reference)
 }

@@ -297,10 +297,11 @@ func (p *parser) cell(b *block, j, i int, f []byte, line int) (float64, error) {
 		return 0, &CSVError{Line: line, Column: j + 1, Name: rd.names[j], Err: badCSV("field longer than %d bytes", rd.o.MaxFieldBytes)}
 	}
 	f = bytes.TrimSpace(f)
-	if len(f) == 0 || rd.codes[string(f)] || missingWord(f) {
+	x, class := classify(f, rd.codes, rd.point, &p.scratch)
+	switch class {
+	case missingCell:
 		return math.NaN(), nil
-	}
-	if x, ok := parseNumber(f, rd.point, &p.scratch); ok {
+	case numberCell:
 		if math.IsInf(x, 0) {
 			return 0, &CSVError{Line: line, Column: j + 1, Name: rd.names[j], Err: badData("%q is infinite", f)}
 		}
@@ -310,16 +311,55 @@ func (p *parser) cell(b *block, j, i int, f []byte, line int) (float64, error) {
 		b.text = make([]colText, len(rd.names))
 	}
 	c := &b.text[j]
-	if v, ok := boolWord(f); ok {
-		c.nBool++
-		if len(c.firstBool) < keep {
-			c.firstBool = append(c.firstBool, cellRef{line, string(f)})
-		}
-		return v, nil
+	if class == boolCell {
+		c.addBool(f, line)
+		return x, nil
 	}
+	c.addText(f, i, line, b.bound)
+	return math.NaN(), nil
+}
+
+// cellClass is what a cell holds.
+type cellClass uint8
+
+const (
+	missingCell cellClass = iota
+	numberCell
+	boolCell
+	textCell
+)
+
+// classify reads a trimmed cell as every reader reads a cell written as
+// text: missing when empty, NA, NaN, N/A or null (any case) or one of
+// codes; else a number (possibly infinite) with the decimal separator
+// point; else true or false (any case), as 1 or 0; else text.
+func classify(f []byte, codes map[string]bool, point byte, scratch *[]byte) (float64, cellClass) {
+	if len(f) == 0 || codes[string(f)] || missingWord(f) {
+		return math.NaN(), missingCell
+	}
+	if x, ok := parseNumber(f, point, scratch); ok {
+		return x, numberCell
+	}
+	if v, ok := boolWord(f); ok {
+		return v, boolCell
+	}
+	return math.NaN(), textCell
+}
+
+// addBool counts a true or false cell f at the row with key k.
+func (c *colText) addBool(f []byte, k int) {
+	c.nBool++
+	if len(c.firstBool) < keep {
+		c.firstBool = append(c.firstBool, cellRef{k, string(f)})
+	}
+}
+
+// addText stores text cell f as row i of the span, at the row with key
+// k; a span's text column is made with room for bound rows.
+func (c *colText) addText(f []byte, i, k, bound int) {
 	c.nText++
 	if c.text == nil {
-		c.text = make([]string, 0, b.bound)
+		c.text = make([]string, 0, bound)
 		c.intern = map[string]string{}
 	}
 	for len(c.text) < i {
@@ -331,10 +371,9 @@ func (p *parser) cell(b *block, j, i int, f []byte, line int) (float64, error) {
 		c.intern[s] = s
 	}
 	if len(c.firstText) < keep {
-		c.firstText = append(c.firstText, cellRef{line, s})
+		c.firstText = append(c.firstText, cellRef{k, s})
 	}
 	c.text = append(c.text, s)
-	return math.NaN(), nil
 }
 
 // textAt returns the text cell of row i of the block in column j, or "".

@@ -198,10 +198,10 @@ func samePath(a, b string) bool {
 }
 
 func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) error {
-	fs := newFlags("discover", "--data FILE.csv --order FILE [options]", stderr)
+	fs := newFlags("discover", "--data FILE.csv|FILE.parquet|DIR --order FILE [options]", stderr)
 	var s settings
 	var rs reading
-	dataPath := fs.String("data", "", "CSV file with a header row (required)")
+	dataPath := fs.String("data", "", "the data: a CSV file with a header row, a Parquet file (.parquet), or a directory of Parquet parts (required)")
 	orderPath := fs.String("order", "", "order file, text or JSON form (required)")
 	s.register(fs)
 	rs.register(fs)
@@ -222,7 +222,7 @@ func runDiscover(ctx context.Context, args []string, stdout, stderr io.Writer) e
 	if err != nil {
 		return err
 	}
-	d, err := readData(*dataPath, copts)
+	d, err := readData(ctx, *dataPath, copts)
 	if err != nil {
 		return err
 	}

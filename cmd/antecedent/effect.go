@@ -18,7 +18,7 @@ import (
 func runEffect(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("effect", "--result FILE.json --data FILE.csv --cause NAME [options]", stderr)
 	resultPath := fs.String("result", "", "result JSON written by discover --json (required)")
-	dataPath := fs.String("data", "", "the CSV file the result was discovered on (required)")
+	dataPath := fs.String("data", "", "the data the result was discovered on: a CSV file, a Parquet file or a directory of Parquet parts (required)")
 	cause := fs.String("cause", "", "the variable to act on (required)")
 	ifA := fs.String("if", "", `the setting asked about: "set:VALUE", "shift:AMOUNT" or "observed" (default set:1 for a binary cause)`)
 	versus := fs.String("versus", "", `the setting compared with (default set:0 for a binary cause, "observed" otherwise)`)
@@ -35,7 +35,7 @@ func runEffect(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	if *resultPath == "" || *dataPath == "" || *cause == "" {
 		return usageError{"--result, --data and --cause are required"}
 	}
-	res, d, err := readResultAndData(*resultPath, *dataPath)
+	res, d, err := readResultAndData(ctx, *resultPath, *dataPath)
 	if err != nil {
 		return err
 	}
@@ -108,9 +108,9 @@ func actions(res *antecedent.Result, cause, a, b string) (intervention.Action, i
 	return A, B, nil
 }
 
-// readResultAndData reads a result JSON and the CSV data it was
-// discovered on.
-func readResultAndData(resultPath, dataPath string) (*antecedent.Result, *table.Dataset, error) {
+// readResultAndData reads a result JSON and the data (CSV or Parquet) it
+// was discovered on.
+func readResultAndData(ctx context.Context, resultPath, dataPath string) (*antecedent.Result, *table.Dataset, error) {
 	f, err := os.Open(resultPath)
 	if err != nil {
 		return nil, nil, err
@@ -120,7 +120,7 @@ func readResultAndData(resultPath, dataPath string) (*antecedent.Result, *table.
 	if err != nil {
 		return nil, nil, fmt.Errorf("%s: %w", resultPath, err)
 	}
-	d, err := readData(dataPath, nil)
+	d, err := readData(ctx, dataPath, nil)
 	if err != nil {
 		return nil, nil, err
 	}

@@ -1,16 +1,19 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"flag"
 	"fmt"
 	"os"
+	"path/filepath"
 	"strings"
 
 	"github.com/antecedent-lab/antecedent/table"
+	"github.com/antecedent-lab/antecedent/table/parquetfile"
 )
 
-// reading holds the options of how a CSV file is read.
+// reading holds the options of how a data file is read.
 type reading struct {
 	separator    string
 	decimalComma bool
@@ -116,9 +119,13 @@ func shellWord(s string) string {
 	return s
 }
 
-// readData reads the CSV file at path; a CSV error is written with the
-// command's flags as fixes.
-func readData(path string, o *table.CSVOptions) (*table.Dataset, error) {
+// readData reads the data at path: a Parquet file (named .parquet) or a
+// directory of Parquet parts, else a CSV file. An error about a cell is
+// written with the command's flags as fixes.
+func readData(ctx context.Context, path string, o *table.CSVOptions) (*table.Dataset, error) {
+	if st, err := os.Stat(path); err == nil && (st.IsDir() || strings.EqualFold(filepath.Ext(path), ".parquet")) {
+		return readParquet(ctx, path, o)
+	}
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
@@ -131,6 +138,27 @@ func readData(path string, o *table.CSVOptions) (*table.Dataset, error) {
 			return nil, fmt.Errorf("%s: %s", path, ce.Describe(flagFix))
 		}
 		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	return d, nil
+}
+
+// readParquet reads a Parquet file or directory of parts with the
+// options that apply to it; the CSV-only options are refused.
+func readParquet(ctx context.Context, path string, o *table.CSVOptions) (*table.Dataset, error) {
+	var ro *table.ReadOptions
+	if o != nil {
+		if o.DecimalComma || o.Comma != 0 && o.Comma != ',' {
+			return nil, usageError{"--separator and --decimal-comma apply to CSV files, not to Parquet"}
+		}
+		ro = &table.ReadOptions{MissingCodes: o.MissingCodes, Reference: o.Reference, CodedOne: o.CodedOne, AsIs: o.AsIs}
+	}
+	d, err := parquetfile.Read(ctx, path, ro)
+	if err != nil {
+		var se *table.SourceError
+		if errors.As(err, &se) {
+			return nil, fmt.Errorf("%s: %s", path, se.Describe(flagFix))
+		}
+		return nil, err
 	}
 	return d, nil
 }

@@ -1,11 +1,13 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -154,6 +156,64 @@ func TestReadingMessages(t *testing.T) {
 		got, _, _ := strings.Cut(strings.TrimSpace(errs), "\n")
 		if got != c.want || code != c.code {
 			t.Errorf("%s: exit %d\n got %s\nwant %s", c.name, code, got, c.want)
+		}
+	}
+}
+
+// TestParquetData runs discover on the clinic table written by another
+// tool as CSV, as one Parquet file and as a directory of Parquet parts
+// (table/parquetfile/testdata, from apache-arrow and parquet-wasm): the
+// three summaries and result files agree.
+func TestParquetData(t *testing.T) {
+	dir := t.TempDir()
+	ord := filepath.Join(dir, "clinic.order")
+	if err := os.WriteFile(ord, []byte("tier: age site arm smoker\ntier: treated dose\ntier: relapse\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const fixtures = "../../table/parquetfile/testdata/"
+	var first, firstJSON string
+	for i, data := range []string{fixtures + "clinic.csv", fixtures + "clinic.parquet", fixtures + "clinic-parts"} {
+		res := filepath.Join(dir, fmt.Sprintf("r%d.json", i))
+		out, errs, code := runCLI(t, "discover", "--data", data, "--order", ord, "--json", res, "--folds", "5", "--missing", "complete-case")
+		if code != 0 {
+			t.Fatalf("%s: %s", data, errs)
+		}
+		raw, err := os.ReadFile(res)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var m map[string]any
+		if err := json.Unmarshal(raw, &m); err != nil {
+			t.Fatal(err)
+		}
+		delete(m, "timings") // how long the run took
+		js, _ := json.Marshal(m)
+		out = regexp.MustCompile(`; [0-9.]+ s\.`).ReplaceAllString(out, ".") // how long the run took
+		if i == 0 {
+			first, firstJSON = out, string(js)
+			continue
+		}
+		if out != first {
+			t.Errorf("%s: summary differs from the CSV's:\n%s\nCSV:\n%s", data, out, first)
+		}
+		if string(js) != firstJSON {
+			t.Errorf("%s: result differs from the CSV's", data)
+		}
+	}
+	// Bad input: the message names the file's row and column and offers
+	// the command's flags; CSV-only flags are refused.
+	for _, tc := range []struct {
+		args []string
+		want string
+		code int
+	}{
+		{[]string{"--data", fixtures + "mixed.parquet"}, `antecedent discover: ` + fixtures + `mixed.parquet: row 58 of mixed.parquet, column 1 ("level"): "-" is not a number, and the column's other 119 values are; correct the source, or use --missing-codes '-' (if it marks a missing value), or use --as-is level (to read the column as text)`, 1},
+		{[]string{"--data", fixtures + "date.parquet"}, `antecedent discover: parquetfile: date.parquet: column "visit": the logical type DATE is not read; convert it to a number or text before writing the file`, 1},
+		{[]string{"--data", fixtures + "clinic.parquet", "--decimal-comma"}, `antecedent discover: --separator and --decimal-comma apply to CSV files, not to Parquet`, 2},
+	} {
+		_, errs, code := runCLI(t, append([]string{"discover", "--order", ord}, tc.args...)...)
+		if code != tc.code || strings.TrimSpace(errs) != tc.want {
+			t.Errorf("%v: code %d, message\n%s\nwant %d,\n%s", tc.args, code, errs, tc.code, tc.want)
 		}
 	}
 }

@@ -175,7 +175,7 @@ func TestInterruptedRun(t *testing.T) {
 // fitSmall runs a quick discovery on the files.
 func fitSmall(t *testing.T, data, ord string) *antecedent.Result {
 	t.Helper()
-	d, err := readData(data, nil)
+	d, err := readData(context.Background(), data, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
