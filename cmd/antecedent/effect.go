@@ -29,13 +29,15 @@ func runEffect(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	workers := fs.Int("workers", 0, "resamples computed at once (0 = number of CPUs)")
 	jsonOut := fs.String("json", "", "write the answer as JSON to this file")
 	quiet := fs.Bool("quiet", false, "print nothing but errors")
+	var rs reading
+	rs.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if *resultPath == "" || *dataPath == "" || *cause == "" {
 		return usageError{"--result, --data and --cause are required"}
 	}
-	res, d, err := readResultAndData(*resultPath, *dataPath)
+	res, d, err := readResultAndData(*resultPath, *dataPath, &rs)
 	if err != nil {
 		return err
 	}
@@ -109,8 +111,12 @@ func actions(res *antecedent.Result, cause, a, b string) (intervention.Action, i
 }
 
 // readResultAndData reads a result JSON and the CSV data it was
-// discovered on.
-func readResultAndData(resultPath, dataPath string) (*antecedent.Result, *table.Dataset, error) {
+// discovered on, with the reading options rs (those discover was given).
+func readResultAndData(resultPath, dataPath string, rs *reading) (*antecedent.Result, *table.Dataset, error) {
+	copts, err := rs.options()
+	if err != nil {
+		return nil, nil, err
+	}
 	f, err := os.Open(resultPath)
 	if err != nil {
 		return nil, nil, err
@@ -120,7 +126,7 @@ func readResultAndData(resultPath, dataPath string) (*antecedent.Result, *table.
 	if err != nil {
 		return nil, nil, fmt.Errorf("%s: %w", resultPath, err)
 	}
-	d, err := readData(dataPath, nil)
+	d, err := readData(dataPath, copts)
 	if err != nil {
 		return nil, nil, err
 	}

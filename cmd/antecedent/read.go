@@ -10,7 +10,9 @@ import (
 	"github.com/antecedent-lab/antecedent/table"
 )
 
-// reading holds the options of how a CSV file is read.
+// reading holds the options of how a CSV file is read. It owns the
+// reading flags: discover, effect and studysize all register them here, so
+// that the data a result was discovered on are read again the same way.
 type reading struct {
 	separator    string
 	decimalComma bool

@@ -27,6 +27,8 @@ func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) 
 	workers := fs.Int("workers", 0, "studies run at once (0 = number of CPUs)")
 	jsonOut := fs.String("json", "", "write the plan as JSON to this file")
 	quiet := fs.Bool("quiet", false, "print nothing but errors")
+	var rs reading
+	rs.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -41,7 +43,7 @@ func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) 
 	if err != nil {
 		return err
 	}
-	res, d, err := readResultAndData(*resultPath, *dataPath)
+	res, d, err := readResultAndData(*resultPath, *dataPath, &rs)
 	if err != nil {
 		return err
 	}
