@@ -20,7 +20,10 @@
 // charts against the penalty (log scale, strong end on the left): the
 // held-out error with a band of ±1 standard error and the chosen penalty
 // as one labelled point, and the coefficient paths with the chosen terms
-// coloured by sign and named where they were chosen. A summary gives the
-// data, settings, timings, the stability bound and the cautions that go
-// with any causal reading of observational data.
+// coloured by sign and named where they were chosen; each parent's row
+// names the procedure that chose it and the evidence the result carries (a
+// selection frequency, a penalty weight). A summary gives the data,
+// settings, timings, the stability bound, in two plain sentences how the
+// parents were chosen (antecedent.Config.SelectionExplanation), and the
+// cautions that go with any causal reading of observational data.
 package report

@@ -158,6 +158,9 @@ type nodeView struct {
 
 type effectView struct {
 	Term, Parent string
+	// ChosenBy names the procedure that chose the parent and the evidence
+	// the result carries for it.
+	ChosenBy     string
 	Estimate     string
 	Interval     string
 	Odds         string
@@ -174,9 +177,11 @@ type summary struct {
 	Mixing                                float64
 	Stability                             *antecedent.StabilityReport
 	Timings                               antecedent.Timings
-	Truth                                 *dag.Comparison
-	TruthEdges                            int
-	Warnings                              []string
+	// Selection says in two sentences how the parents were chosen.
+	Selection  string
+	Truth      *dag.Comparison
+	TruthEdges int
+	Warnings   []string
 }
 
 // shorten keeps names readable inside a node box.
@@ -393,9 +398,11 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		nv.ScoreName = n.Score.Measure
 	}
 	freq := map[string]float64{}
+	required := map[string]bool{}
 	for _, e := range res.Edges {
 		if e.To == n.Name {
 			freq[e.From] = float64(e.Frequency)
+			required[e.From] = e.Required
 		}
 	}
 	for _, e := range n.Effects {
@@ -408,6 +415,7 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		if f, ok := freq[e.Parent]; ok && finite(f) {
 			ev.Frequency = fmt.Sprintf("%.0f%%", 100*f)
 		}
+		ev.ChosenBy = chosenBy(n, e, required[e.Parent], freq[e.Parent])
 		if e.NotEstimable != "" {
 			ev.Estimate, ev.Interval = "not estimable", e.NotEstimable
 		}
@@ -420,6 +428,42 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		nv.Path = pathChart(n)
 	}
 	return nv
+}
+
+// chosenBy says which procedure chose the parent of effect e of node n and
+// with what evidence the result carries: the selection frequency under
+// stability selection, the penalty weight under the adaptive lasso, the
+// penalised coefficient under the lasso.
+func chosenBy(n *antecedent.Node, e antecedent.Effect, required bool, freq float64) string {
+	if required {
+		return "required by the order"
+	}
+	var term *antecedent.Term
+	for k := range n.Penalised {
+		if n.Penalised[k].Term == e.Term {
+			term = &n.Penalised[k]
+		}
+	}
+	switch n.Selection {
+	case "stability":
+		if finite(freq) {
+			return fmt.Sprintf("stability selection: %.0f%% of halves", 100*freq)
+		}
+		return "stability selection"
+	case "adaptive":
+		if term != nil && finite(float64(term.Weight)) {
+			return "adaptive lasso, penalty weight " + fmtNum(term.Weight)
+		}
+		return "adaptive lasso"
+	case "lasso":
+		if term != nil && finite(float64(term.Value)) {
+			return "lasso, penalised coefficient " + fmtNum(term.Value)
+		}
+		return "lasso"
+	case "relaxed":
+		return "relaxed lasso"
+	}
+	return n.Selection
 }
 
 func fmtNum(x antecedent.Number) string {
@@ -737,7 +781,7 @@ func pathChart(n *antecedent.Node) *chart {
 func summarise(res *antecedent.Result, o *Options) summary {
 	s := summary{Variables: len(res.Nodes), Rows: res.Rows, Edges: len(res.Edges), Folds: res.Config.Folds,
 		Rule: res.Config.CV.Rule.String(), Measure: res.Config.CV.Measure.String(), Seed: res.Config.Seed, Mixing: res.Config.CV.Path.Mixing,
-		Stability: res.Stability, Timings: res.Timings, Warnings: res.Warnings}
+		Stability: res.Stability, Timings: res.Timings, Warnings: res.Warnings, Selection: res.Config.SelectionExplanation()}
 	if s.Mixing == 0 {
 		s.Mixing = 1 // lasso.Settings: zero means the pure lasso
 	}
