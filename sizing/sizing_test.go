@@ -278,7 +278,20 @@ func TestFromFittedNetwork(t *testing.T) {
 		t.Errorf("A → B: coefficient %v, found %v", e.Coefficient, e.Found)
 	}
 	ch := p.Chart()
-	if len(ch.Curves) != len(p.Edges) || len(ch.FalseEdges.Values) != 2 {
+	if len(ch.Curves) != len(p.Edges) || len(ch.FalseEdges.Values) != 2 || ch.Needed != nil {
 		t.Errorf("chart %+v", ch)
+	}
+	for k, c := range ch.Curves {
+		if c.From != p.Edges[k].From || c.To != p.Edges[k].To || len(c.Values) != len(p.Sizes) {
+			t.Errorf("curve %d: %+v for edge %s → %s", k, c, p.Edges[k].From, p.Edges[k].To)
+		}
+	}
+	need, err := p.RowsFor("A", "B", 0.8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ac := (&sizing.Answer{Plan: p, Needed: &need}).Chart()
+	if ac.Needed == nil || ac.Needed.Rows != need.Rows || ac.Needed.Status != need.Status || ac.Title != "Rows needed to find A → B in 80% of studies" {
+		t.Errorf("answer chart: needed %+v, title %q", ac.Needed, ac.Title)
 	}
 }
