@@ -14,6 +14,8 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/intervention"
+	"github.com/antecedent-lab/antecedent/sizing"
 )
 
 //go:embed report.html.tmpl
@@ -52,6 +54,14 @@ type Options struct {
 	Truth *dag.Graph
 	// Generated is the time printed on the page; zero means now.
 	Generated time.Time
+	// Interventions are answers of package intervention to show in the
+	// section "Questions asked of the network", one chart each, with
+	// their cautions. Each must be about variables of the result.
+	Interventions []*intervention.Answer
+	// Plans are study plans of package sizing to show in the same
+	// section, one chart each, marking the rows needed when the answer
+	// carries them.
+	Plans []*sizing.Answer
 }
 
 // Write renders res as a self-contained HTML page to w.
@@ -82,6 +92,11 @@ type view struct {
 	Summary   summary
 	Focus     map[string]focus
 	Cautions  []string
+	// Answers and Plans are the answered questions; QuestionCautions
+	// the cautions printed above them.
+	Answers          []answerView
+	Plans            []planView
+	QuestionCautions []string
 }
 
 type network struct {
@@ -289,6 +304,18 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		v.Nodes = append(v.Nodes, nodeSection(res, i))
 	}
 	v.Summary = summarise(res, o)
+	if err := checkAnswers(res, o); err != nil {
+		return nil, err
+	}
+	for _, a := range o.Interventions {
+		v.Answers = append(v.Answers, answerSection(a))
+	}
+	for _, a := range o.Plans {
+		v.Plans = append(v.Plans, planSection(a))
+	}
+	if len(v.Answers)+len(v.Plans) > 0 {
+		v.QuestionCautions = append(slices.Clone(intervention.Cautions), sizing.Cautions...)
+	}
 	v.Cautions = []string{
 		"This network is a hypothesis drawn from observational data, not a proof of cause and effect.",
 		"Unmeasured confounding, selection of the patients in the table, and measurement error can create edges that are not causal or hide ones that are.",

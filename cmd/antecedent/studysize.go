@@ -77,17 +77,14 @@ func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) 
 		}
 		need = &n
 	}
+	answer := &sizing.Answer{Plan: p, Needed: need}
 	if *jsonOut != "" {
-		out := struct {
-			Plan   *sizing.Plan   `json:"plan"`
-			Needed *sizing.Needed `json:"rows_needed,omitempty"`
-		}{p, need}
-		if err := writeJSONFile(*jsonOut, out, *resultPath, *dataPath); err != nil {
+		if err := writeJSONFile(*jsonOut, answer, *resultPath, *dataPath); err != nil {
 			return err
 		}
 	}
 	if !*quiet {
-		writePlan(stdout, p, need, *resultPath)
+		writePlan(stdout, answer, *resultPath)
 	}
 	return nil
 }
@@ -116,8 +113,9 @@ func parseEdge(s string) (string, string, error) {
 	return from, to, nil
 }
 
-// writePlan prints a plan as text.
-func writePlan(w io.Writer, p *sizing.Plan, need *sizing.Needed, source string) {
+// writePlan prints a plan and its rows needed as text.
+func writePlan(w io.Writer, a *sizing.Answer, source string) {
+	p, need := a.Plan, a.Needed
 	fmt.Fprintf(w, "Studies drawn from the network in %s, %d of each size, each discovered with the same settings.\n", source, p.Replicates)
 	fmt.Fprintln(w, "Share of studies that find each edge (± Monte Carlo standard error):")
 	fmt.Fprintln(w)
