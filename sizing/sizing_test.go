@@ -142,6 +142,13 @@ func TestRowsFor(t *testing.T) {
 			t.Errorf("%s → B: %s %d rows, want %s %d", tc.from, got.Status, got.Rows, tc.status, tc.rows)
 		}
 	}
+	// (0.5, 0.45) pool to 0.475 and 0.8 is reached exactly at 100 rows,
+	// which exp(log 50 + (log 100 − log 50)) = 100.00000000000004 must
+	// not round up to 101.
+	exact := &sizing.Plan{Sizes: []int{25, 50, 100}, Edges: []sizing.EdgeRate{{From: "E", To: "B", Found: rates(0.5, 0.45, 0.8)}}}
+	if got, err := exact.RowsFor("E", "B", 0.8); err != nil || got.Status != sizing.Reached || got.Rows != 100 {
+		t.Errorf("E → B reached exactly at a size: %s %d rows (%v), want reached at 100", got.Status, got.Rows, err)
+	}
 	if _, err := p.RowsFor("X", "B", 0.8); !errors.Is(err, sizing.ErrSettings) {
 		t.Errorf("unknown edge: err = %v", err)
 	}
