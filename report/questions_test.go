@@ -242,3 +242,19 @@ func TestQuestionFigureCrowded(t *testing.T) {
 		t.Errorf("%d of %d sizes labelled: crowded labels should be dropped, not all", len(pf.XTicks), len(wide.Sizes))
 	}
 }
+
+func BenchmarkAnswerFigure(b *testing.B) {
+	_, answers, _ := QuestionAnswers(b)
+	c := answers[0].Chart()
+	for b.Loop() {
+		answerFigure(c)
+	}
+}
+
+func BenchmarkPlanChart(b *testing.B) {
+	_, _, plans := QuestionAnswers(b)
+	c := plans[0].Chart()
+	for b.Loop() {
+		planChart(c)
+	}
+}
