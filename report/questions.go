@@ -109,9 +109,6 @@ func fit(s string, width float64) string {
 	return shorten(s, max(2, int(width/qWidth("m"))))
 }
 
-// keyChars is the number of characters of bold question-figure text
-// (0.68 em a character) that fit width units.
-func keyChars(width float64) int { return max(2, int(width/(0.68*11.5))) }
 
 // edgeName names the edge from → to in at most n characters, shortening
 // each end rather than losing the arrow.
@@ -389,7 +386,7 @@ type neededMark struct {
 const (
 	planH     = 270
 	planLeft  = 50
-	planRight = 190 // room for the highlighted edges' names
+	planRight = 230 // room for the highlighted edges' names
 	planTop   = 14
 	planBot   = 46
 	maxCurves = 4 // edges drawn in colour and named when none is asked about
@@ -461,7 +458,7 @@ func planChart(c sizing.Chart) (*planFigure, []sizing.Curve) {
 		if finite(last) {
 			name := cv.Label
 			if cv.From != "" {
-				name = edgeName(cv.From, cv.To, keyChars(planRight-8-figPad))
+				name = edgeName(cv.From, cv.To, int((planRight-8-figPad)/qWidth("m")))
 			}
 			ends = append(ends, end{last + 4, name, k})
 		}
@@ -479,7 +476,7 @@ func planChart(c sizing.Chart) (*planFigure, []sizing.Curve) {
 	got := stack(want, f.Top+9, f.Top+f.PlotH+2)
 	xEnd := sx.at(hi)
 	for i, e := range ends {
-		l := chartLabel{X: f.Left + f.PlotW + 8, Y: got[i], Text: e.name, Anchor: "start", Class: fmt.Sprintf("key c%d", e.k%maxCurves)}
+		l := chartLabel{X: f.Left + f.PlotW + 8, Y: got[i], Text: e.name, Anchor: "start", Class: fmt.Sprintf("c%d", e.k%maxCurves)}
 		if math.Abs(got[i]-e.y) > 2 {
 			l.Leader, l.LX, l.LY = true, xEnd, e.y-4
 		}

@@ -258,3 +258,24 @@ func BenchmarkPlanChart(b *testing.B) {
 		planChart(c)
 	}
 }
+
+// TestEdgeName checks that a long edge keeps its arrow and both ends'
+// beginnings within the characters allowed.
+func TestEdgeName(t *testing.T) {
+	for _, c := range []struct {
+		from, to string
+		n        int
+		want     string
+	}{
+		{"age", "bmi", 30, "age → bmi"},
+		{"transfusion", "length_of_stay", 28, "transfusion → length_of_stay"},
+		{"transfusion", "length_of_stay", 20, "transfu… → length_o…"},
+		{"anticoagulant_dose_in_milligrams", "outcome", 20, "anticoagu… → outcome"},
+		{"age", "anticoagulant_dose_in_milligrams", 20, "age → anticoagulant…"},
+	} {
+		got := edgeName(c.from, c.to, c.n)
+		if got != c.want || utf8.RuneCountInString(got) > c.n {
+			t.Errorf("edgeName(%q, %q, %d) = %q, want %q", c.from, c.to, c.n, got, c.want)
+		}
+	}
+}
