@@ -109,7 +109,6 @@ func fit(s string, width float64) string {
 	return shorten(s, max(2, int(width/qWidth("m"))))
 }
 
-
 // edgeName names the edge from → to in at most n characters, shortening
 // each end rather than losing the arrow.
 func edgeName(from, to string, n int) string {
