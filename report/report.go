@@ -192,11 +192,12 @@ type summary struct {
 	Mixing                                float64
 	Stability                             *antecedent.StabilityReport
 	Timings                               antecedent.Timings
-	// Selection says in two sentences how the parents were chosen.
-	Selection  string
-	Truth      *dag.Comparison
-	TruthEdges int
-	Warnings   []string
+	// Selection says in two sentences how the parents were chosen, and
+	// Procedure names the procedure.
+	Selection, Procedure string
+	Truth                *dag.Comparison
+	TruthEdges           int
+	Warnings             []string
 }
 
 // shorten keeps names readable inside a node box.
@@ -809,6 +810,11 @@ func summarise(res *antecedent.Result, o *Options) summary {
 	s := summary{Variables: len(res.Nodes), Rows: res.Rows, Edges: len(res.Edges), Folds: res.Config.Folds,
 		Rule: res.Config.CV.Rule.String(), Measure: res.Config.CV.Measure.String(), Seed: res.Config.Seed, Mixing: res.Config.CV.Path.Mixing,
 		Stability: res.Stability, Timings: res.Timings, Warnings: res.Warnings, Selection: res.Config.SelectionExplanation()}
+	s.Procedure = map[antecedent.Selection]string{antecedent.AdaptiveLasso: "adaptive lasso", antecedent.PenalisedLasso: "lasso",
+		antecedent.RelaxedLasso: "relaxed lasso"}[res.Config.Selection]
+	if res.Config.Stability.Pairs > 0 {
+		s.Procedure = "stability selection"
+	}
 	if s.Mixing == 0 {
 		s.Mixing = 1 // lasso.Settings: zero means the pure lasso
 	}

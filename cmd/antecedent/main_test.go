@@ -91,6 +91,12 @@ func TestSimulateDiscoverCompare(t *testing.T) {
 	if !strings.Contains(out, "Stability selection") {
 		t.Errorf("summary lacks stability:\n%s", out)
 	}
+	// With stability selection on, the summary explains it, not the
+	// adaptive lasso it replaces.
+	if flat := strings.Join(strings.Fields(out), " "); !strings.Contains(flat, "How parents were chosen: Each variable is predicted from the variables measured before it by lasso regressions on 3 pairs of complementary random halves") ||
+		strings.Contains(flat, "two rounds of lasso") {
+		t.Errorf("the summary does not explain stability selection:\n%s", out)
+	}
 	out, errs, code = runCLI(t, "compare", "--estimate", res, "--truth", truth)
 	if code != 0 || !strings.Contains(out, "precision") || !strings.Contains(out, "structural Hamming distance") {
 		t.Fatalf("compare: %d %s %s", code, out, errs)
