@@ -177,19 +177,49 @@ const boxes = `(function () {
 // TestBrowserQuestions opens the page with answered questions in a real
 // browser and measures its figures' texts as drawn: none overlaps another
 // or leaves its figure, and none is smaller than 11 px (common practice for
-// the smallest legible screen text). Run with ANTECEDENT_SCREENSHOT_DIR set
+// the smallest legible screen text), in windows 800 and 1400 pixels wide,
+// and the page does not scroll sideways. Run with ANTECEDENT_SCREENSHOT_DIR set
 // it saves the screenshot as questions.png.
 func TestBrowserQuestions(t *testing.T) {
 	page, _, _ := questionsPage(t)
-	dom, img := openPage(t, "questions.html", []byte(page), 1400, 3000, boxes)
-	if f := attr(t, dom, "data-text-faults"); f != "none" {
-		for _, s := range strings.Split(f, " | ") {
-			t.Error(s)
+	probe := boxes + `document.body.setAttribute("data-page-overflow", String(document.documentElement.scrollWidth - window.innerWidth));`
+	for _, width := range []int{800, 1400} {
+		dom, img := openPage(t, "questions.html", []byte(page), width, 1600, probe)
+		if f := attr(t, dom, "data-text-faults"); f != "none" {
+			for _, s := range strings.Split(f, " | ") {
+				t.Errorf("%d px: %s", width, s)
+			}
+		}
+		if least, _ := strconv.ParseFloat(attr(t, dom, "data-least-font"), 64); least < 11-0.01 {
+			t.Errorf("%d px: question figure text drawn at %.2f px", width, least)
+		}
+		if o := attr(t, dom, "data-page-overflow"); o != "0" {
+			t.Errorf("%d px: the page scrolls sideways by %s px", width, o)
+		}
+		if width == 1400 {
+			notBlank(t, img)
+			saveShot(t, img, "questions.png")
 		}
 	}
-	if least, _ := strconv.ParseFloat(attr(t, dom, "data-least-font"), 64); least < 11-0.01 {
-		t.Errorf("question figure text drawn at %.2f px", least)
+}
+
+// TestBrowserProbeCatchesOverlap checks the probe on a page worked by
+// hand: two texts drawn on top of each other and one drawn past the
+// figure's right edge must be reported; a third, apart, must not.
+func TestBrowserProbeCatchesOverlap(t *testing.T) {
+	page := `<!DOCTYPE html><html><head><meta charset="utf-8"><style>text{font:12px sans-serif}</style></head><body>
+<figure class="qchart"><svg width="300" height="100" viewBox="0 0 300 100">
+<text x="10" y="20">first label</text><text x="14" y="22">second label</text>
+<text x="250" y="60">past the edge</text><text x="10" y="80">apart</text>
+</svg></figure><script>document.body.setAttribute("data-ready", "1")</script></body></html>`
+	dom, _ := openPage(t, "probe.html", []byte(page), 600, 400, boxes)
+	f := attr(t, dom, "data-text-faults")
+	for _, want := range []string{"'first label' overlaps 'second label'", "'past the edge' leaves the figure"} {
+		if !strings.Contains(f, want) {
+			t.Errorf("the probe missed %q: %s", want, f)
+		}
 	}
-	notBlank(t, img)
-	saveShot(t, img, "questions.png")
+	if strings.Contains(f, "apart") {
+		t.Errorf("the probe reported a text that is apart: %s", f)
+	}
 }
