@@ -279,3 +279,25 @@ func TestEdgeName(t *testing.T) {
 		}
 	}
 }
+
+// TestOverlappingCatches checks the geometric checker on boxes worked by
+// hand: at 10 units, 0.62 em a character, "abcd" spans 24.8 units.
+func TestOverlappingCatches(t *testing.T) {
+	a := estimateBox(0, 20, "start", "abcd", 10, false) // x 0..24.8, y 12..22.5
+	b := estimateBox(20, 22, "start", "efgh", 10, false)
+	c := estimateBox(30, 20, "start", "ijkl", 10, false)
+	d := estimateBox(95, 60, "start", "mnop", 10, false) // ends at 119.8
+	faults := overlapping([]textBox{a, b, c, d}, 100, 100)
+	want := []string{`"abcd" overlaps "efgh"`, `"efgh" overlaps "ijkl"`, `"mnop" leaves the figure`}
+	if len(faults) != len(want) {
+		t.Fatalf("faults %q, want %d", faults, len(want))
+	}
+	for i, w := range want {
+		if !strings.HasPrefix(faults[i], w) && !strings.Contains(strings.Join(faults, "|"), w) {
+			t.Errorf("missed %s in %q", w, faults)
+		}
+	}
+	if math.Abs(estimateBox(50, 20, "middle", "abcd", 10, false).x0-(50-12.4)) > 1e-9 || math.Abs(estimateBox(50, 20, "end", "abcd", 10, true).x0-(50-27.2)) > 1e-9 {
+		t.Error("anchors misplaced")
+	}
+}
