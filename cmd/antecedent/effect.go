@@ -18,7 +18,7 @@ import (
 func runEffect(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("effect", "--result FILE.json --data FILE.csv --cause NAME [options]", stderr)
 	resultPath := fs.String("result", "", "result JSON written by discover --json (required)")
-	dataPath := fs.String("data", "", "the CSV file the result was discovered on (required)")
+	dataPath := fs.String("data", "", "the CSV file the result was discovered on, read with the reading options discover was given (required)")
 	cause := fs.String("cause", "", "the variable to act on (required)")
 	ifA := fs.String("if", "", `the setting asked about: "set:VALUE", "shift:AMOUNT" or "observed" (default set:1 for a binary cause)`)
 	versus := fs.String("versus", "", `the setting compared with (default set:0 for a binary cause, "observed" otherwise)`)

@@ -18,7 +18,7 @@ import (
 func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("studysize", "--result FILE.json --data FILE.csv [options]", stderr)
 	resultPath := fs.String("result", "", "result JSON written by discover --json (required)")
-	dataPath := fs.String("data", "", "the CSV file the result was discovered on (required)")
+	dataPath := fs.String("data", "", "the CSV file the result was discovered on, read with the reading options discover was given (required)")
 	sizes := fs.String("sizes", "250,500,1000,2000", "comma-separated study sizes (rows), increasing")
 	replicates := fs.Int("replicates", 50, "simulated studies of each size")
 	edge := fs.String("edge", "", `answer "rows needed" for this edge, written FROM->TO`)
