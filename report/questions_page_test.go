@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"html"
+	"image"
 	"math"
 	"regexp"
 	"strconv"
@@ -182,9 +183,10 @@ const boxes = `(function () {
 // it saves the screenshot as questions.png.
 func TestBrowserQuestions(t *testing.T) {
 	page, _, _ := questionsPage(t)
-	probe := boxes + `document.body.setAttribute("data-page-overflow", String(document.documentElement.scrollWidth - window.innerWidth));`
+	probe := boxes + `document.body.setAttribute("data-page-overflow", String(document.documentElement.scrollWidth - window.innerWidth));
+document.body.setAttribute("data-questions-top", String(Math.round(document.getElementById("questions").getBoundingClientRect().top + window.scrollY)));`
 	for _, width := range []int{800, 1400} {
-		dom, img := openPage(t, "questions.html", []byte(page), width, 1600, probe)
+		dom, img := openPage(t, "questions.html", []byte(page), width, 3200, probe)
 		if f := attr(t, dom, "data-text-faults"); f != "none" {
 			for _, s := range strings.Split(f, " | ") {
 				t.Errorf("%d px: %s", width, s)
@@ -197,8 +199,22 @@ func TestBrowserQuestions(t *testing.T) {
 			t.Errorf("%d px: the page scrolls sideways by %s px", width, o)
 		}
 		if width == 1400 {
-			notBlank(t, img)
-			saveShot(t, img, "questions.png")
+			// The section, from its heading down.
+			top, err := strconv.Atoi(attr(t, dom, "data-questions-top"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			b := img.Bounds()
+			section := image.Rect(b.Min.X, max(b.Min.Y, top-12), b.Min.X+1100, min(b.Max.Y, top+1600))
+			sub, ok := img.(interface {
+				SubImage(image.Rectangle) image.Image
+			})
+			if !ok || section.Dy() < 800 {
+				t.Fatalf("cannot cut the section out of the screenshot (top %d, %v)", top, b)
+			}
+			shot := sub.SubImage(section)
+			notBlank(t, shot)
+			saveShot(t, shot, "questions.png")
 		}
 	}
 }
