@@ -49,10 +49,8 @@ type planRow struct {
 // intervals, in panels that each have their own axis.
 type forest struct {
 	Width, Height float64
-	// ValueX is where the printed values start.
-	ValueX float64
-	Texts  []chartLabel // outcome headings and notes
-	Panels []forestPanel
+	Texts         []chartLabel // outcome headings and notes
+	Panels        []forestPanel
 }
 
 // forestPanel is one axis and the estimates drawn on it.
@@ -86,8 +84,7 @@ const (
 	figW       = 640
 	figLabelR  = 196 // right edge of the row labels
 	figPlotL   = 206
-	figPlotR   = 410
-	figValueX  = 422
+	figPlotR   = 410 // the values are printed from figPlotR + 12
 	rowPitch   = 20
 	panelTitle = 18 // from a panel's title baseline to its first row
 	axisRoom   = 32 // below the last row: tick labels and the axis label
@@ -145,8 +142,9 @@ func estimate(e intervention.Estimate) string {
 // forestAxis returns the scale of a panel holding the estimates es, and
 // ticks. With zero set the axis always shows zero (differences); otherwise
 // it starts at zero when the estimates' smallest value is at most half
-// their largest, and else is cut short and marked broken.
-func forestAxis(p *forestPanel, es []intervention.Estimate, zero bool) scale {
+// their largest, and else is cut short and marked broken. A risk axis
+// stays within [0, 1].
+func forestAxis(p *forestPanel, es []intervention.Estimate, zero, risk bool) scale {
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, e := range es {
 		for _, v := range []antecedent.Number{e.Value, e.Lower, e.Upper} {
@@ -180,6 +178,10 @@ func forestAxis(p *forestPanel, es []intervention.Estimate, zero bool) scale {
 			break
 		}
 		p.Broken = true
+	}
+	if risk {
+		lo, hi = math.Max(lo, 0), math.Min(hi, 1)
+		p.Broken = lo > 0
 	}
 	sx := scale{lo, hi, p.Left, p.Right}
 	t := ticks(lo, hi, 4)
@@ -220,11 +222,11 @@ func ticksCrowded(ts []tick) bool {
 
 // addPanel adds a panel of labelled estimates below y and returns the
 // height below it.
-func (f *forest) addPanel(y float64, title, axis string, labels []string, es []intervention.Estimate, classes []string, zero bool) float64 {
+func (f *forest) addPanel(y float64, title, axis string, labels []string, es []intervention.Estimate, classes []string, zero, risk bool) float64 {
 	p := forestPanel{Title: fitBold(title, figW-2*figPad), TitleY: y + 12, Left: figPlotL, Right: figPlotR}
 	p.Top = y + panelTitle
 	p.Bottom = p.Top + float64(len(es))*rowPitch
-	sx := forestAxis(&p, es, zero)
+	sx := forestAxis(&p, es, zero, risk)
 	// The axis label is centred under the axis and may reach the
 	// figure's edges; a cut axis says so, whatever the label's length.
 	room := 2*math.Min((p.Left+p.Right)/2, figW-(p.Left+p.Right)/2) - 2*figPad
@@ -283,7 +285,7 @@ func wrapText(text string, width int) string {
 // the adjustment-set regressions, the ratio of risks, and the path
 // decomposition where the path rule applies.
 func answerFigure(c intervention.Chart) *forest {
-	f := &forest{Width: figW, ValueX: figValueX}
+	f := &forest{Width: figW}
 	y := float64(figPad)
 	for _, r := range c.Rows {
 		what, unit := "mean", r.Outcome
@@ -293,7 +295,7 @@ func answerFigure(c intervention.Chart) *forest {
 		f.Texts = append(f.Texts, chartLabel{X: figPad, Y: y + 16, Text: shorten(r.Outcome, headChars), Class: "head", Anchor: "start"})
 		y += headRoom
 		y = f.addPanel(y, fmt.Sprintf("%s of %s under each setting", capital(what), unit), what+" of "+unit,
-			[]string{c.LabelA, c.LabelB}, []intervention.Estimate{r.A, r.B}, []string{"set-a", "set-b"}, false)
+			[]string{c.LabelA, c.LabelB}, []intervention.Estimate{r.A, r.B}, []string{"set-a", "set-b"}, false, what == "risk")
 		if !r.Downstream {
 			y = f.addNote(y, "Not downstream of "+c.Cause+" in the network: the same under both settings.") + panelGap/2
 			continue
@@ -305,7 +307,7 @@ func answerFigure(c intervention.Chart) *forest {
 			labels, es, classes = append(labels, "adjusted: "+setName(a.Label)), append(es, a.Estimate), append(classes, "adjusted")
 		}
 		y = f.addPanel(y, fmt.Sprintf("Difference in %s: %s − %s", what, c.LabelA, c.LabelB), "difference in "+what+" of "+unit,
-			labels, es, classes, true)
+			labels, es, classes, true, false)
 		if finite(float64(r.Ratio.Value)) {
 			y = f.addNote(y, fmt.Sprintf("Ratio of risks, %s ÷ %s: %s", c.LabelA, c.LabelB, estimate(r.Ratio)))
 		}
@@ -315,7 +317,7 @@ func answerFigure(c intervention.Chart) *forest {
 				labels, es, classes = append(labels, p.Label), append(es, p.Estimate), append(classes, "path")
 			}
 			y = f.addPanel(y, fmt.Sprintf("Paths from %s to %s, per unit of %s", c.Cause, r.Outcome, c.Cause), "effect per unit of "+c.Cause,
-				labels, es, classes, true)
+				labels, es, classes, true, false)
 		} else if r.PathsNote != "" {
 			y = f.addNote(y, "No path decomposition: "+r.PathsNote)
 		}

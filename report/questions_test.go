@@ -3,6 +3,7 @@ package report
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 	"testing"
 	"unicode/utf8"
@@ -125,6 +126,13 @@ func TestQuestionFigureGeometry(t *testing.T) {
 				t.Error(fault)
 			}
 			for _, p := range f.Panels {
+				if strings.HasPrefix(p.AxisLabel, "risk of") {
+					for _, tk := range p.Ticks {
+						if v, err := strconv.ParseFloat(tk.Label, 64); err != nil || v < 0 || v > 1 {
+							t.Errorf("%s: risk tick %q outside [0, 1]", p.Title, tk.Label)
+						}
+					}
+				}
 				if p.HasZero && !within(p.ZeroX, p.Left, p.Right) {
 					t.Errorf("%s: zero line at %.1f outside %.1f..%.1f", p.Title, p.ZeroX, p.Left, p.Right)
 				}
@@ -213,9 +221,28 @@ func TestQuestionFigureCrowded(t *testing.T) {
 		}
 		c.Rows = append(c.Rows, r)
 	}
+	// A risk near 1: its axis must stop at 1.
+	high := c.Rows[0]
+	high.Scale, high.Outcome = "risk", "nearly_certain"
+	high.A = intervention.Estimate{Value: 0.985, Lower: 0.97, Upper: 0.999}
+	high.B = intervention.Estimate{Value: 0.99, Lower: 0.98, Upper: 1}
+	c.Rows = append(c.Rows, high)
 	f := answerFigure(c)
 	for _, fault := range overlapping(forestTexts(f), f.Width, f.Height) {
 		t.Error(fault)
+	}
+	for _, p := range f.Panels {
+		if !strings.HasPrefix(p.AxisLabel, "risk of nearly_certain") {
+			continue
+		}
+		if !p.Broken {
+			t.Errorf("a risk axis from 0.97 to 1 is not marked as cut: %q", p.AxisLabel)
+		}
+		for _, tk := range p.Ticks {
+			if v, err := strconv.ParseFloat(tk.Label, 64); err != nil || v > 1 {
+				t.Errorf("risk axis tick %q past 1", tk.Label)
+			}
+		}
 	}
 	p := plans[0]
 	wide := *p.Plan
