@@ -137,3 +137,50 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 	}
 	return chosen, nil
 }
+
+// Explanation returns two sentences that say, in words a clinician can
+// follow, how the procedure s chooses each variable's parents when the
+// penalty is chosen by rule. The README and the report print them; an
+// unknown selection gets a sentence saying so.
+func (s Selection) Explanation(rule cv.Rule) string {
+	penalty := "when the penalty is set, by cross-validation, to the one that predicts rows left out of the fit best"
+	if rule == cv.OneStandardError {
+		penalty = "when the penalty is set, by cross-validation, to the strongest one that predicts rows left out of the fit within one standard error of the best"
+	}
+	switch s {
+	case AdaptiveLasso:
+		return "Each variable is predicted from the variables measured before it in two rounds of lasso regression: " +
+			"the first measures how strongly each earlier variable is linked to it, and the second penalises weakly linked variables more " +
+			"and strongly linked ones less, so that weak, spurious links drop out. " +
+			"Its parents are the earlier variables still in the second model " + penalty + "."
+	case PenalisedLasso:
+		return "Each variable is predicted from the variables measured before it by one lasso regression, " +
+			"which shrinks every link towards zero and drops the weakest entirely. " +
+			"Its parents are the earlier variables still in the model " + penalty + "."
+	case RelaxedLasso:
+		best := "the set whose refit predicts rows left out of the fit best (cross-validation)"
+		if rule == cv.OneStandardError {
+			best = "the smallest set whose refit predicts rows left out of the fit within one standard error of the best set (cross-validation)"
+		}
+		return "Each variable is predicted from the variables measured before it by one lasso regression, " +
+			"and each set of earlier variables that enters as the penalty weakens is refitted without penalty. " +
+			"Its parents are the variables of " + best + "."
+	}
+	return fmt.Sprintf("%v is not a procedure this version knows.", s)
+}
+
+// SelectionExplanation returns the two sentences that say how the run
+// configured by c chooses parents: stability selection's when it is on,
+// otherwise those of c.Selection under c.CV.Rule (Selection.Explanation).
+func (c *Config) SelectionExplanation() string {
+	r, err := c.resolve()
+	if err != nil && c != nil {
+		r = *c
+	}
+	if r.Stability.Pairs > 0 {
+		return fmt.Sprintf("Each variable is predicted from the variables measured before it by lasso regressions on %d pairs of complementary random halves of the rows, "+
+			"each at the penalty chosen for that variable by cross-validation. "+
+			"An earlier variable is a parent when it is chosen in at least %.0f%% of the halves.", r.Stability.Pairs, 100*r.Stability.Threshold)
+	}
+	return r.Selection.Explanation(r.CV.Rule)
+}

@@ -3,6 +3,7 @@ package intervention_test
 import (
 	"context"
 	"encoding/json"
+	"math"
 	"reflect"
 	"testing"
 
@@ -43,8 +44,32 @@ func TestAnswerJSONAndChart(t *testing.T) {
 		t.Errorf("scales %q, %q", c.Rows[0].Scale, c.Rows[1].Scale)
 	}
 	for k, r := range c.Rows {
-		if !reflect.DeepEqual(r.Difference, ans.Outcomes[k].Difference) || len(r.Adjusted) != 2 {
+		o := ans.Outcomes[k]
+		if !reflect.DeepEqual(r.Difference, o.Difference) || len(r.Adjusted) != 2 || r.Downstream != o.Downstream {
 			t.Errorf("row %d: %+v", k, r)
+		}
+		if o.Binary != finite(float64(r.Ratio.Value)) || o.Binary && !reflect.DeepEqual(r.Ratio, o.Ratio) {
+			t.Errorf("row %d: ratio %+v for a binary outcome %v (%+v)", k, r.Ratio, o.Binary, o.Ratio)
+		}
+		switch p := o.Paths; {
+		case p == nil && (len(r.Paths) != 0 || r.PathsNote != o.PathsNote || r.PathsNote == ""):
+			t.Errorf("row %d: paths %+v, note %q for an outcome without a decomposition (%q)", k, r.Paths, r.PathsNote, o.PathsNote)
+		case p != nil && (len(r.Paths) != 2+len(p.Mediators) || r.Paths[0].Label != "total" || !reflect.DeepEqual(r.Paths[0].Estimate, p.Total) ||
+			r.Paths[1].Label != "direct" || !reflect.DeepEqual(r.Paths[1].Estimate, p.Direct)):
+			t.Errorf("row %d: paths %+v for %+v", k, r.Paths, p)
+		}
+	}
+	// Z is continuous and M → Z is linear: its decomposition is charted,
+	// through each mediator.
+	if z := c.Rows[1]; len(z.Paths) < 2 {
+		t.Errorf("Z: no path decomposition charted: %+v", z)
+	} else {
+		for k, m := range ans.Outcomes[1].Paths.Mediators {
+			if z.Paths[2+k].Label != "through "+m.Name {
+				t.Errorf("Z: path row %d is %q, want through %s", 2+k, z.Paths[2+k].Label, m.Name)
+			}
 		}
 	}
 }
+
+func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

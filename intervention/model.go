@@ -55,7 +55,8 @@ type equation struct {
 // New reads the discovered network res, with the data d it was discovered
 // on, as a generative model: it refits every equation on the rows of d
 // where every variable is present. The data must hold the result's
-// variables, with the same kinds, and no others; they need not be the
+// variables, with the same kinds and, where the result records them, the
+// same levels in the same coding, and no others; they need not be the
 // very rows of the discovery (a warning says so when the refits differ
 // from the result's effects). New never modifies res or d, and returns an
 // error wrapping ErrMismatch when they do not match, or ctx.Err().
@@ -137,6 +138,9 @@ func (m *Model) match(res *antecedent.Result) error {
 			problems = append(problems, fmt.Sprintf("%q is in the result but not in the data", n.Name))
 		case m.vars[i].Kind != n.Kind:
 			problems = append(problems, fmt.Sprintf("%q is %v in the result and %v in the data", n.Name, n.Kind, m.vars[i].Kind))
+		case len(n.Levels) > 0 && !slices.Equal(n.Levels, m.vars[i].Levels):
+			problems = append(problems, fmt.Sprintf("%q is coded %s in the result and %s in the data (read the data with the reference levels and codings the discovery used)",
+				n.Name, n.Coding, m.vars[i].Coding()))
 		}
 	}
 	for _, v := range m.vars {

@@ -36,6 +36,16 @@ func TestNewMismatch(t *testing.T) {
 	flags := make([]float64, 200)
 	flags[3] = 1
 	binaryY, _ := table.NewDataset(list("C", "X", "M2", "M1", "Y"), [][]float64{mustCol(t, d, "C"), mustCol(t, d, "X"), mustCol(t, d, "M2"), mustCol(t, d, "M1"), flags})
+	// The same binary Y coded the other way round: the result says "0" is
+	// coded 1, the data (read from numbers) code "1" as 1.
+	flipped := *res
+	flipped.Nodes = slices.Clone(res.Nodes)
+	for i := range flipped.Nodes {
+		if flipped.Nodes[i].Name == "Y" {
+			flipped.Nodes[i].Kind, flipped.Nodes[i].Levels = table.Binary, []string{"1", "0"}
+			flipped.Nodes[i].Coding = `"0" = 1, "1" = 0 (reference)`
+		}
+	}
 	for _, tc := range []struct {
 		name string
 		res  *antecedent.Result
@@ -47,6 +57,7 @@ func TestNewMismatch(t *testing.T) {
 		{"variable missing from the data", res, cols("C", "X", "M2", "Y"), `"M1" is in the result but not in the data`},
 		{"extra variable in the data", res, extra, `"site" is in the data but not in the result`},
 		{"kind differs", res, binaryY, `"Y" is continuous in the result and binary in the data`},
+		{"coding differs", &flipped, binaryY, `"Y" is coded "0" = 1, "1" = 0 (reference) in the result and 1 vs 0 (reference) in the data`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := intervention.New(context.Background(), tc.res, tc.d)

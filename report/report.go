@@ -14,6 +14,8 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/intervention"
+	"github.com/antecedent-lab/antecedent/sizing"
 )
 
 //go:embed report.html.tmpl
@@ -52,6 +54,14 @@ type Options struct {
 	Truth *dag.Graph
 	// Generated is the time printed on the page; zero means now.
 	Generated time.Time
+	// Interventions are answers of package intervention to show in the
+	// section "Questions asked of the network", one chart each, with
+	// their cautions. Each must be about variables of the result.
+	Interventions []*intervention.Answer
+	// Plans are study plans of package sizing to show in the same
+	// section, one chart each, marking the rows needed when the answer
+	// carries them.
+	Plans []*sizing.Answer
 }
 
 // Write renders res as a self-contained HTML page to w.
@@ -82,6 +92,11 @@ type view struct {
 	Summary   summary
 	Focus     map[string]focus
 	Cautions  []string
+	// Answers and Plans are the answered questions; QuestionCautions
+	// the cautions printed above them.
+	Answers          []answerView
+	Plans            []planView
+	QuestionCautions []string
 }
 
 type network struct {
@@ -158,6 +173,9 @@ type nodeView struct {
 
 type effectView struct {
 	Term, Parent string
+	// ChosenBy names the procedure that chose the parent and the evidence
+	// the result carries for it.
+	ChosenBy     string
 	Estimate     string
 	Interval     string
 	Odds         string
@@ -174,9 +192,12 @@ type summary struct {
 	Mixing                                float64
 	Stability                             *antecedent.StabilityReport
 	Timings                               antecedent.Timings
-	Truth                                 *dag.Comparison
-	TruthEdges                            int
-	Warnings                              []string
+	// Selection says in two sentences how the parents were chosen, and
+	// Procedure names the procedure.
+	Selection, Procedure string
+	Truth                *dag.Comparison
+	TruthEdges           int
+	Warnings             []string
 }
 
 // shorten keeps names readable inside a node box.
@@ -284,6 +305,18 @@ func build(res *antecedent.Result, o *Options) (*view, error) {
 		v.Nodes = append(v.Nodes, nodeSection(res, i))
 	}
 	v.Summary = summarise(res, o)
+	if err := checkAnswers(res, o); err != nil {
+		return nil, err
+	}
+	for _, a := range o.Interventions {
+		v.Answers = append(v.Answers, answerSection(a))
+	}
+	for _, a := range o.Plans {
+		v.Plans = append(v.Plans, planSection(a))
+	}
+	if len(v.Answers)+len(v.Plans) > 0 {
+		v.QuestionCautions = append(slices.Clone(intervention.Cautions), sizing.Cautions...)
+	}
 	v.Cautions = []string{
 		"This network is a hypothesis drawn from observational data, not a proof of cause and effect.",
 		"Unmeasured confounding, selection of the patients in the table, and measurement error can create edges that are not causal or hide ones that are.",
@@ -393,9 +426,11 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		nv.ScoreName = n.Score.Measure
 	}
 	freq := map[string]float64{}
+	required := map[string]bool{}
 	for _, e := range res.Edges {
 		if e.To == n.Name {
 			freq[e.From] = float64(e.Frequency)
+			required[e.From] = e.Required
 		}
 	}
 	for _, e := range n.Effects {
@@ -408,6 +443,7 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		if f, ok := freq[e.Parent]; ok && finite(f) {
 			ev.Frequency = fmt.Sprintf("%.0f%%", 100*f)
 		}
+		ev.ChosenBy = chosenBy(n, e, required[e.Parent], freq[e.Parent])
 		if e.NotEstimable != "" {
 			ev.Estimate, ev.Interval = "not estimable", e.NotEstimable
 		}
@@ -420,6 +456,42 @@ func nodeSection(res *antecedent.Result, i int) nodeView {
 		nv.Path = pathChart(n)
 	}
 	return nv
+}
+
+// chosenBy says which procedure chose the parent of effect e of node n and
+// with what evidence the result carries: the selection frequency under
+// stability selection, the penalty weight under the adaptive lasso, the
+// penalised coefficient under the lasso.
+func chosenBy(n *antecedent.Node, e antecedent.Effect, required bool, freq float64) string {
+	if required {
+		return "required by the order"
+	}
+	var term *antecedent.Term
+	for k := range n.Penalised {
+		if n.Penalised[k].Term == e.Term {
+			term = &n.Penalised[k]
+		}
+	}
+	switch n.Selection {
+	case "stability":
+		if finite(freq) {
+			return fmt.Sprintf("stability selection: %.0f%% of halves", 100*freq)
+		}
+		return "stability selection"
+	case "adaptive":
+		if term != nil && finite(float64(term.Weight)) {
+			return "adaptive lasso, penalty weight " + fmtNum(term.Weight)
+		}
+		return "adaptive lasso"
+	case "lasso":
+		if term != nil && finite(float64(term.Value)) {
+			return "lasso, penalised coefficient " + fmtNum(term.Value)
+		}
+		return "lasso"
+	case "relaxed":
+		return "relaxed lasso"
+	}
+	return n.Selection
 }
 
 func fmtNum(x antecedent.Number) string {
@@ -737,7 +809,12 @@ func pathChart(n *antecedent.Node) *chart {
 func summarise(res *antecedent.Result, o *Options) summary {
 	s := summary{Variables: len(res.Nodes), Rows: res.Rows, Edges: len(res.Edges), Folds: res.Config.Folds,
 		Rule: res.Config.CV.Rule.String(), Measure: res.Config.CV.Measure.String(), Seed: res.Config.Seed, Mixing: res.Config.CV.Path.Mixing,
-		Stability: res.Stability, Timings: res.Timings, Warnings: res.Warnings}
+		Stability: res.Stability, Timings: res.Timings, Warnings: res.Warnings, Selection: res.Config.SelectionExplanation()}
+	s.Procedure = map[antecedent.Selection]string{antecedent.AdaptiveLasso: "adaptive lasso", antecedent.PenalisedLasso: "lasso",
+		antecedent.RelaxedLasso: "relaxed lasso"}[res.Config.Selection]
+	if res.Config.Stability.Pairs > 0 {
+		s.Procedure = "stability selection"
+	}
 	if s.Mixing == 0 {
 		s.Mixing = 1 // lasso.Settings: zero means the pure lasso
 	}

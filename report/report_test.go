@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"fmt"
+	"html/template"
 	"image"
 	"image/png"
 	"os"
@@ -465,5 +466,35 @@ func TestBrowserHostileNames(t *testing.T) {
 	}
 	if !strings.Contains(dom, "&lt;script&gt;alert(1)&lt;/script&gt;") {
 		t.Error("hostile name is not shown as text")
+	}
+}
+
+// TestSelectionExplained checks that the page says in the run's own two
+// sentences how parents were chosen (issue 21), and that each effect row
+// names the procedure and the evidence the result carries for it: the
+// demonstration runs the default adaptive lasso, so each chosen parent's
+// penalty weight, as the result stores it.
+func TestSelectionExplained(t *testing.T) {
+	html, res := demoReport(t)
+	s := string(html)
+	if want := template.HTMLEscapeString(res.Config.SelectionExplanation()); !strings.Contains(s, want) {
+		t.Errorf("the page lacks the run's explanation %q", want)
+	}
+	rows := 0
+	for _, n := range res.Nodes {
+		for _, e := range n.Effects {
+			for _, p := range n.Penalised {
+				if p.Term == e.Term && n.Selection == "adaptive" {
+					rows++
+					want := fmt.Sprintf("<td>adaptive lasso, penalty weight %.3g</td>", float64(p.Weight))
+					if !strings.Contains(s, want) {
+						t.Errorf("%s ← %s: the page lacks %q", n.Name, e.Term, want)
+					}
+				}
+			}
+		}
+	}
+	if rows == 0 {
+		t.Error("no effect of the demonstration was chosen by the adaptive lasso")
 	}
 }

@@ -22,6 +22,9 @@
 // Restrictions), and the first crossing of the target is interpolated
 // linearly in the logarithm of the rows between the two sizes around it.
 //
+// Answer pairs a plan with its rows needed; its Chart gives the numbers a
+// report draws.
+//
 // Studies are seeded, so a plan is reproducible; long runs report progress
 // and stop when their context is cancelled. The answer treats the
 // generating network as the truth: see Cautions.

@@ -42,3 +42,37 @@ func Example() {
 	//  800 rows: found in 0.95 of studies (± 0.03)
 	// 80%: about 528 rows (reached between 400 and 800)
 }
+
+// ExampleAnswer_Chart gives a report the numbers to draw a plan with its
+// rows needed: the edge's shares with their standard errors, and the
+// target share and rows to mark.
+func ExampleAnswer_Chart() {
+	m := &simulate.Model{Nodes: []simulate.Node{
+		{Name: "dose"}, {Name: "n1"},
+		{Name: "response", Parents: []string{"dose"}, Weights: []float64{0.5}},
+	}}
+	o := &order.Order{Tiers: [][]string{{"dose", "n1"}, {"response"}}}
+	g, err := sizing.FromModel(m)
+	if err != nil {
+		log.Fatal(err)
+	}
+	p, err := sizing.Run(context.Background(), g, o, &antecedent.Config{Seed: 1},
+		&sizing.Settings{Sizes: []int{25, 50, 100}, Replicates: 20, Seed: 1})
+	if err != nil {
+		log.Fatal(err)
+	}
+	need, err := p.RowsFor("dose", "response", 0.8)
+	if err != nil {
+		log.Fatal(err)
+	}
+	c := (&sizing.Answer{Plan: p, Needed: &need}).Chart()
+	fmt.Println(c.Title)
+	for _, cv := range c.Curves {
+		fmt.Printf("%s: %.2f\n", cv.Label, cv.Values)
+	}
+	fmt.Printf("mark %.0f%% at %d rows (%s)\n", 100*c.Needed.Probability, c.Needed.Rows, c.Needed.Status)
+	// Output:
+	// Rows needed to find dose → response in 80% of studies
+	// dose → response: [0.50 0.45 0.80]
+	// mark 80% at 100 rows (reached)
+}

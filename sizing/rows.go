@@ -63,7 +63,9 @@ func (p *Plan) RowsFor(from, to string, prob float64) (Needed, error) {
 		lo, hi := math.Log(float64(p.Sizes[k-1])), math.Log(float64(p.Sizes[k]))
 		f := (prob - s[k-1]) / (v - s[k-1])
 		out.Status, out.Below, out.Above = Reached, p.Sizes[k-1], p.Sizes[k]
-		out.Rows = int(math.Ceil(math.Exp(lo + f*(hi-lo))))
+		// Rounded up, but not for the last bits of floating-point error:
+		// a crossing exactly at a size gives that size.
+		out.Rows = int(math.Ceil(math.Exp(lo+f*(hi-lo)) * (1 - 1e-12)))
 		return out, nil
 	}
 	return out, nil

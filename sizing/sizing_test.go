@@ -142,6 +142,13 @@ func TestRowsFor(t *testing.T) {
 			t.Errorf("%s → B: %s %d rows, want %s %d", tc.from, got.Status, got.Rows, tc.status, tc.rows)
 		}
 	}
+	// (0.5, 0.45) pool to 0.475 and 0.8 is reached exactly at 100 rows,
+	// which exp(log 50 + (log 100 − log 50)) = 100.00000000000004 must
+	// not round up to 101.
+	exact := &sizing.Plan{Sizes: []int{25, 50, 100}, Edges: []sizing.EdgeRate{{From: "E", To: "B", Found: rates(0.5, 0.45, 0.8)}}}
+	if got, err := exact.RowsFor("E", "B", 0.8); err != nil || got.Status != sizing.Reached || got.Rows != 100 {
+		t.Errorf("E → B reached exactly at a size: %s %d rows (%v), want reached at 100", got.Status, got.Rows, err)
+	}
 	if _, err := p.RowsFor("X", "B", 0.8); !errors.Is(err, sizing.ErrSettings) {
 		t.Errorf("unknown edge: err = %v", err)
 	}
@@ -278,7 +285,20 @@ func TestFromFittedNetwork(t *testing.T) {
 		t.Errorf("A → B: coefficient %v, found %v", e.Coefficient, e.Found)
 	}
 	ch := p.Chart()
-	if len(ch.Curves) != len(p.Edges) || len(ch.FalseEdges.Values) != 2 {
+	if len(ch.Curves) != len(p.Edges) || len(ch.FalseEdges.Values) != 2 || ch.Needed != nil {
 		t.Errorf("chart %+v", ch)
+	}
+	for k, c := range ch.Curves {
+		if c.From != p.Edges[k].From || c.To != p.Edges[k].To || len(c.Values) != len(p.Sizes) {
+			t.Errorf("curve %d: %+v for edge %s → %s", k, c, p.Edges[k].From, p.Edges[k].To)
+		}
+	}
+	need, err := p.RowsFor("A", "B", 0.8)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ac := (&sizing.Answer{Plan: p, Needed: &need}).Chart()
+	if ac.Needed == nil || ac.Needed.Rows != need.Rows || ac.Needed.Status != need.Status || ac.Title != "Rows needed to find A → B in 80% of studies" {
+		t.Errorf("answer chart: needed %+v, title %q", ac.Needed, ac.Title)
 	}
 }

@@ -9,14 +9,16 @@ import (
 	"strings"
 
 	"github.com/antecedent-lab/antecedent/demo"
+	"github.com/antecedent-lab/antecedent/intervention"
 	"github.com/antecedent-lab/antecedent/report"
+	"github.com/antecedent-lab/antecedent/sizing"
 )
 
 func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("demo", "[options]", stderr)
 	var s settings
 	dir := fs.String("out", "antecedent-demo", "folder for result.json, network.dot and report.html (empty: write nothing)")
-	questions := fs.Bool("questions", false, "also ask the network one intervention and one planning question (about half a minute more)")
+	questions := fs.Bool("questions", false, "also ask the network one intervention and one planning question, and show the answers in the report (about half a minute more)")
 	s.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
@@ -38,6 +40,15 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 	if err != nil {
 		return err
 	}
+	ropts := &report.Options{Title: "Recovery after joint replacement — synthetic demonstration", Truth: truth}
+	var answers *demoAnswers
+	if *questions {
+		if answers, err = askDemo(ctx, res, d, &s, stderr); err != nil {
+			return err
+		}
+		ropts.Interventions = []*intervention.Answer{answers.effect}
+		ropts.Plans = []*sizing.Answer{answers.plan}
+	}
 	if *dir != "" {
 		if err := os.MkdirAll(*dir, 0o755); err != nil {
 			return err
@@ -52,7 +63,6 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 			s.report = filepath.Join(*dir, "report.html")
 		}
 	}
-	ropts := &report.Options{Title: "Recovery after joint replacement — synthetic demonstration", Truth: truth}
 	if err := s.outputs(ctx, res, ropts); err != nil {
 		return err
 	}
@@ -62,8 +72,8 @@ func runDemo(ctx context.Context, args []string, stdout, stderr io.Writer) error
 			fmt.Fprintf(stdout, "\nWrote %s.\n", strings.Join(wrote, ", "))
 		}
 	}
-	if *questions {
-		return demoQuestions(ctx, res, d, &s, *dir, stdout, stderr)
+	if answers != nil {
+		return answers.write(*dir, s.quiet, stdout)
 	}
 	if !s.quiet {
 		fmt.Fprintln(stdout, "\nAsk the network what an intervention would change and how many rows a study needs: antecedent demo --questions")

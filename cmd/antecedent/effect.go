@@ -18,7 +18,7 @@ import (
 func runEffect(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("effect", "--result FILE.json --data FILE.csv --cause NAME [options]", stderr)
 	resultPath := fs.String("result", "", "result JSON written by discover --json (required)")
-	dataPath := fs.String("data", "", "the data the result was discovered on: a CSV file, a Parquet file or a directory of Parquet parts (required)")
+	dataPath := fs.String("data", "", "the data the result was discovered on (a CSV file, a Parquet file or a directory of Parquet parts), read with the reading options discover was given (required)")
 	cause := fs.String("cause", "", "the variable to act on (required)")
 	ifA := fs.String("if", "", `the setting asked about: "set:VALUE", "shift:AMOUNT" or "observed" (default set:1 for a binary cause)`)
 	versus := fs.String("versus", "", `the setting compared with (default set:0 for a binary cause, "observed" otherwise)`)
@@ -29,13 +29,15 @@ func runEffect(ctx context.Context, args []string, stdout, stderr io.Writer) err
 	workers := fs.Int("workers", 0, "resamples computed at once (0 = number of CPUs)")
 	jsonOut := fs.String("json", "", "write the answer as JSON to this file")
 	quiet := fs.Bool("quiet", false, "print nothing but errors")
+	var rs reading
+	rs.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
 	if *resultPath == "" || *dataPath == "" || *cause == "" {
 		return usageError{"--result, --data and --cause are required"}
 	}
-	res, d, err := readResultAndData(ctx, *resultPath, *dataPath)
+	res, d, err := readResultAndData(ctx, *resultPath, *dataPath, &rs)
 	if err != nil {
 		return err
 	}
@@ -109,8 +111,13 @@ func actions(res *antecedent.Result, cause, a, b string) (intervention.Action, i
 }
 
 // readResultAndData reads a result JSON and the data (CSV or Parquet) it
-// was discovered on.
-func readResultAndData(ctx context.Context, resultPath, dataPath string) (*antecedent.Result, *table.Dataset, error) {
+// was discovered on, with the reading options rs (those discover was
+// given).
+func readResultAndData(ctx context.Context, resultPath, dataPath string, rs *reading) (*antecedent.Result, *table.Dataset, error) {
+	copts, err := rs.options()
+	if err != nil {
+		return nil, nil, err
+	}
 	f, err := os.Open(resultPath)
 	if err != nil {
 		return nil, nil, err
@@ -120,7 +127,7 @@ func readResultAndData(ctx context.Context, resultPath, dataPath string) (*antec
 	if err != nil {
 		return nil, nil, fmt.Errorf("%s: %w", resultPath, err)
 	}
-	d, err := readData(ctx, dataPath, nil)
+	d, err := readData(ctx, dataPath, copts)
 	if err != nil {
 		return nil, nil, err
 	}

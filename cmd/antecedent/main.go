@@ -5,6 +5,7 @@
 //	antecedent discover --data d.csv --order o.txt --json result.json
 //	antecedent simulate --variables 20 --rows 2000 --data d.csv --order o.txt --truth t.csv
 //	antecedent compare --estimate result.json --truth t.csv
+//	antecedent render --result result.json --report r.html --effect effect.json --studysize plan.json
 //	antecedent effect --result result.json --data d.csv --cause X --if set:1 --versus set:0
 //	antecedent studysize --result result.json --data d.csv --sizes 500,1000,2000 --edge "A->B"
 //

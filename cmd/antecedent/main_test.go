@@ -57,8 +57,22 @@ func TestDemo(t *testing.T) {
 	if dot, err := os.ReadFile(filepath.Join(dir, "network.dot")); err != nil || !strings.Contains(string(dot), "digraph") {
 		t.Fatalf("network.dot: %v", err)
 	}
-	if html, err := os.ReadFile(filepath.Join(dir, "demo.html")); err != nil || !strings.Contains(string(html), "Recovery after joint replacement") {
+	html, err := os.ReadFile(filepath.Join(dir, "demo.html"))
+	if err != nil || !strings.Contains(string(html), "Recovery after joint replacement") {
 		t.Fatalf("demo.html: %v", err)
+	}
+	// With --questions the report shows both answers, each as a chart.
+	for _, s := range []string{"Questions asked of the network", "What if tranexamic_acid were set to 1 rather than set to 0?",
+		"Rows needed to find transfusion → length_of_stay in 80% of studies"} {
+		if !strings.Contains(string(html), s) {
+			t.Errorf("demo.html lacks %q", s)
+		}
+	}
+	if n := strings.Count(string(html), `<figure class="qchart">`); n != 2 {
+		t.Errorf("demo.html has %d question charts, want 2", n)
+	}
+	if !strings.Contains(out, "How parents were chosen: Each variable is predicted") {
+		t.Error("the summary does not say how parents were chosen")
 	}
 }
 
@@ -76,6 +90,12 @@ func TestSimulateDiscoverCompare(t *testing.T) {
 	}
 	if !strings.Contains(out, "Stability selection") {
 		t.Errorf("summary lacks stability:\n%s", out)
+	}
+	// With stability selection on, the summary explains it, not the
+	// adaptive lasso it replaces.
+	if flat := strings.Join(strings.Fields(out), " "); !strings.Contains(flat, "How parents were chosen: Each variable is predicted from the variables measured before it by lasso regressions on 3 pairs of complementary random halves") ||
+		strings.Contains(flat, "two rounds of lasso") {
+		t.Errorf("the summary does not explain stability selection:\n%s", out)
 	}
 	out, errs, code = runCLI(t, "compare", "--estimate", res, "--truth", truth)
 	if code != 0 || !strings.Contains(out, "precision") || !strings.Contains(out, "structural Hamming distance") {

@@ -27,13 +27,18 @@ const (
 	demoReplicates = 20
 )
 
-// demoQuestions asks the demo's network one intervention and one planning
-// question, prints the answers and writes them as JSON into dir (when not
-// empty).
-func demoQuestions(ctx context.Context, res *antecedent.Result, d *table.Dataset, s *settings, dir string, stdout, stderr io.Writer) error {
+// demoAnswers are the demo's two answers.
+type demoAnswers struct {
+	effect *intervention.Answer
+	plan   *sizing.Answer
+}
+
+// askDemo asks the demo's network one intervention and one planning
+// question.
+func askDemo(ctx context.Context, res *antecedent.Result, d *table.Dataset, s *settings, stderr io.Writer) (*demoAnswers, error) {
 	m, err := intervention.New(ctx, res, d)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	bar := func(stage string) (func(done, total int), func()) {
 		if s.quiet || !isTerminal(stderr) {
@@ -46,11 +51,7 @@ func demoQuestions(ctx context.Context, res *antecedent.Result, d *table.Dataset
 	ans, err := m.Effect(ctx, demoQuestion, &intervention.Settings{Resamples: demoResamples, Seed: s.seed, Workers: s.workers, Progress: progress})
 	finish()
 	if err != nil {
-		return err
-	}
-	if !s.quiet {
-		fmt.Fprintln(stdout, "\n── An intervention question ──")
-		writeAnswer(stdout, ans)
+		return nil, err
 	}
 	progress, finish = bar("studies")
 	plan, err := sizing.Run(ctx, m, res.Order, &res.Config, &sizing.Settings{
@@ -58,25 +59,30 @@ func demoQuestions(ctx context.Context, res *antecedent.Result, d *table.Dataset
 	})
 	finish()
 	if err != nil {
-		return err
+		return nil, err
 	}
 	need, err := plan.RowsFor(demoEdge[0], demoEdge[1], 0.8)
 	if err != nil {
-		return err
+		return nil, err
 	}
-	if !s.quiet {
+	return &demoAnswers{ans, &sizing.Answer{Plan: plan, Needed: &need}}, nil
+}
+
+// write prints the answers (unless quiet) and writes them as JSON into
+// dir (when not empty).
+func (a *demoAnswers) write(dir string, quiet bool, stdout io.Writer) error {
+	if !quiet {
+		fmt.Fprintln(stdout, "\n── An intervention question ──")
+		writeAnswer(stdout, a.effect)
 		fmt.Fprintln(stdout, "\n── A planning question ──")
-		writePlan(stdout, plan, &need, "the demo's result")
+		writePlan(stdout, a.plan, "the demo's result")
 		fmt.Fprintln(stdout, "(A quick run; \"antecedent studysize\" takes more replicates and other sizes.)")
 	}
 	if dir == "" {
 		return nil
 	}
-	if err := writeJSONFile(filepath.Join(dir, "effect.json"), ans); err != nil {
+	if err := writeJSONFile(filepath.Join(dir, "effect.json"), a.effect); err != nil {
 		return err
 	}
-	return writeJSONFile(filepath.Join(dir, "studysize.json"), struct {
-		Plan   *sizing.Plan   `json:"plan"`
-		Needed *sizing.Needed `json:"rows_needed"`
-	}{plan, &need})
+	return writeJSONFile(filepath.Join(dir, "studysize.json"), a.plan)
 }

@@ -13,7 +13,9 @@ import (
 	"github.com/antecedent-lab/antecedent/table/parquetfile"
 )
 
-// reading holds the options of how a data file is read.
+// reading holds the options of how a data file is read. It owns the
+// reading flags: discover, effect and studysize all register them here, so
+// that the data a result was discovered on are read again the same way.
 type reading struct {
 	separator    string
 	decimalComma bool

@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -214,6 +215,70 @@ func TestParquetData(t *testing.T) {
 		_, errs, code := runCLI(t, append([]string{"discover", "--order", ord}, tc.args...)...)
 		if code != tc.code || strings.TrimSpace(errs) != tc.want {
 			t.Errorf("%v: code %d, message\n%s\nwant %d,\n%s", tc.args, code, errs, tc.code, tc.want)
+		}
+	}
+}
+
+// TestQuestionsReadLikeDiscover checks that effect and studysize take the
+// reading flags discover takes, from the one shared flag set: a study
+// written with semicolons, decimal commas, a missing-value code and text
+// codings is read by all three, and read without the flags it is refused
+// with the flag that fixes it, or (coding) with the coding that differs.
+func TestQuestionsReadLikeDiscover(t *testing.T) {
+	dir := t.TempDir()
+	plain, ord := studyCSV(t, dir, nil)
+	b, err := os.ReadFile(plain)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Semicolons between fields, commas in numbers, and "." for the sex
+	// of the first patient.
+	text := strings.ReplaceAll(strings.ReplaceAll(string(b), ",", ";"), ".", ",")
+	text = strings.Replace(text, ";female;", ";.;", 1)
+	text = strings.Replace(text, ";male;", ";.;", 1)
+	data := filepath.Join(dir, "semi.csv")
+	if err := os.WriteFile(data, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	result := filepath.Join(dir, "r.json")
+	read := []string{"--separator", ";", "--decimal-comma", "--missing-codes", ".", "--coded-1", "outcome=case", "--reference", "region=east"}
+	if _, errs, code := runCLI(t, append([]string{"discover", "--data", data, "--order", ord, "--json", result, "--folds", "5",
+		"--missing", "complete-case", "--quiet"}, read...)...); code != 0 {
+		t.Fatalf("discover: %s", errs)
+	}
+	effect := []string{"effect", "--result", result, "--data", data, "--cause", "age", "--if", "shift:10", "--resamples", "5"}
+	size := []string{"studysize", "--result", result, "--data", data, "--sizes", "60,120", "--replicates", "2"}
+	for _, args := range [][]string{effect, size} {
+		out, errs, code := runCLI(t, append(args, read...)...)
+		if code != 0 || !strings.Contains(out, "Caution") {
+			t.Errorf("%s with the reading flags: exit %d %s\n%s", args[0], code, errs, out)
+		}
+	}
+	// An older age raises the risk of a case in the generating model
+	// (0.12 per year on the log-odds scale): with "case" coded 1, ten
+	// more years raise the outcome's mean.
+	out, _, _ := runCLI(t, append(effect, read...)...)
+	if !regexp.MustCompile(`outcome\s+0\.\d+ \[[^]]*\]\s+0\.\d+ \[[^]]*\]\s+0\.\d+ `).MatchString(out) {
+		t.Errorf("ten more years do not raise the risk of a case:\n%s", out)
+	}
+	for _, c := range []struct {
+		name string
+		keep int // reading flags kept: read[:keep]
+		more []string
+		want string
+	}{
+		{"no separator", 0, nil, "use --separator ';'"},
+		{"no missing code", 3, nil, "use --missing-codes ."},
+		{"other coding", 5, []string{"--coded-1", "outcome=control"}, `"outcome" is coded "case" = 1, "control" = 0 (reference) in the result and "control" = 1, "case" = 0 (reference) in the data`},
+	} {
+		for _, args := range [][]string{effect, size} {
+			_, errs, code := runCLI(t, slices.Concat(args, read[:c.keep], c.more)...)
+			if code == 0 || !strings.Contains(errs, c.want) {
+				t.Errorf("%s, %s: exit %d, stderr %q; want it to say %q", args[0], c.name, code, errs, c.want)
+			}
+			if strings.Count(strings.TrimSpace(errs), "\n") > 0 {
+				t.Errorf("%s, %s: the error takes more than one line: %q", args[0], c.name, errs)
+			}
 		}
 	}
 }

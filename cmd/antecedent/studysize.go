@@ -18,7 +18,7 @@ import (
 func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) error {
 	fs := newFlags("studysize", "--result FILE.json --data FILE.csv [options]", stderr)
 	resultPath := fs.String("result", "", "result JSON written by discover --json (required)")
-	dataPath := fs.String("data", "", "the data the result was discovered on: a CSV file, a Parquet file or a directory of Parquet parts (required)")
+	dataPath := fs.String("data", "", "the data the result was discovered on (a CSV file, a Parquet file or a directory of Parquet parts), read with the reading options discover was given (required)")
 	sizes := fs.String("sizes", "250,500,1000,2000", "comma-separated study sizes (rows), increasing")
 	replicates := fs.Int("replicates", 50, "simulated studies of each size")
 	edge := fs.String("edge", "", `answer "rows needed" for this edge, written FROM->TO`)
@@ -27,6 +27,8 @@ func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) 
 	workers := fs.Int("workers", 0, "studies run at once (0 = number of CPUs)")
 	jsonOut := fs.String("json", "", "write the plan as JSON to this file")
 	quiet := fs.Bool("quiet", false, "print nothing but errors")
+	var rs reading
+	rs.register(fs)
 	if err := parse(fs, args); err != nil {
 		return err
 	}
@@ -41,7 +43,7 @@ func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) 
 	if err != nil {
 		return err
 	}
-	res, d, err := readResultAndData(ctx, *resultPath, *dataPath)
+	res, d, err := readResultAndData(ctx, *resultPath, *dataPath, &rs)
 	if err != nil {
 		return err
 	}
@@ -75,17 +77,14 @@ func runStudySize(ctx context.Context, args []string, stdout, stderr io.Writer) 
 		}
 		need = &n
 	}
+	answer := &sizing.Answer{Plan: p, Needed: need}
 	if *jsonOut != "" {
-		out := struct {
-			Plan   *sizing.Plan   `json:"plan"`
-			Needed *sizing.Needed `json:"rows_needed,omitempty"`
-		}{p, need}
-		if err := writeJSONFile(*jsonOut, out, *resultPath, *dataPath); err != nil {
+		if err := writeJSONFile(*jsonOut, answer, *resultPath, *dataPath); err != nil {
 			return err
 		}
 	}
 	if !*quiet {
-		writePlan(stdout, p, need, *resultPath)
+		writePlan(stdout, answer, *resultPath)
 	}
 	return nil
 }
@@ -114,8 +113,9 @@ func parseEdge(s string) (string, string, error) {
 	return from, to, nil
 }
 
-// writePlan prints a plan as text.
-func writePlan(w io.Writer, p *sizing.Plan, need *sizing.Needed, source string) {
+// writePlan prints a plan and its rows needed as text.
+func writePlan(w io.Writer, a *sizing.Answer, source string) {
+	p, need := a.Plan, a.Needed
 	fmt.Fprintf(w, "Studies drawn from the network in %s, %d of each size, each discovered with the same settings.\n", source, p.Replicates)
 	fmt.Fprintln(w, "Share of studies that find each edge (± Monte Carlo standard error):")
 	fmt.Fprintln(w)

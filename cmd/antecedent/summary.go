@@ -38,6 +38,7 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 			}
 			fmt.Fprintf(w, "Each penalty chosen by %d-fold cross-validation (%s, %s); seed %d; %.1f s.\n",
 				res.Config.Folds, n.Measure, rule, res.Config.Seed, res.Timings.Total)
+			fmt.Fprintln(w, wrap("How parents were chosen: "+res.Config.SelectionExplanation(), 100))
 			fmt.Fprintln(w, "Effects: a continuous variable's in its own units, a binary variable's as odds ratios of its value coded 1;")
 			fmt.Fprintln(w, "per unit of a continuous parent, value coded 1 vs reference for a binary parent, each level vs reference for a categorical one.")
 			break

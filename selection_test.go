@@ -1,0 +1,84 @@
+package antecedent_test
+
+import (
+	"os"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
+)
+
+// sentenceEnd matches the end of a sentence: a full stop followed by a
+// space and a capital letter, or at the end of the text.
+var sentenceEnd = regexp.MustCompile(`\.( [A-Z]|$)`)
+
+// TestSelectionExplanation checks that each procedure, under each rule,
+// is explained in two sentences of its own that name what it does, and
+// that a run's explanation follows its Config.
+func TestSelectionExplanation(t *testing.T) {
+	seen := map[string]string{}
+	for _, c := range []struct {
+		sel  antecedent.Selection
+		rule cv.Rule
+		want []string
+	}{
+		{antecedent.AdaptiveLasso, cv.OneStandardError, []string{"two rounds of lasso", "penalises weakly linked variables more", "within one standard error"}},
+		{antecedent.AdaptiveLasso, cv.MinimumLoss, []string{"two rounds of lasso", "predicts rows left out of the fit best"}},
+		{antecedent.PenalisedLasso, cv.OneStandardError, []string{"one lasso regression", "within one standard error"}},
+		{antecedent.PenalisedLasso, cv.MinimumLoss, []string{"one lasso regression", "predicts rows left out of the fit best"}},
+		{antecedent.RelaxedLasso, cv.OneStandardError, []string{"refitted without penalty", "smallest set"}},
+		{antecedent.RelaxedLasso, cv.MinimumLoss, []string{"refitted without penalty", "predicts rows left out of the fit best"}},
+	} {
+		name := c.sel.String() + "/" + c.rule.String()
+		s := c.sel.Explanation(c.rule)
+		if n := len(sentenceEnd.FindAllString(s, -1)); n != 2 {
+			t.Errorf("%s: %d sentences, want 2: %s", name, n, s)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(s, w) {
+				t.Errorf("%s: explanation lacks %q: %s", name, w, s)
+			}
+		}
+		if other, dup := seen[s]; dup {
+			t.Errorf("%s explained as %s is", name, other)
+		}
+		seen[s] = name
+	}
+	if s := antecedent.Selection(7).Explanation(cv.OneStandardError); !strings.Contains(s, "not a procedure") {
+		t.Errorf("unknown selection: %q", s)
+	}
+	for _, c := range []struct {
+		name string
+		cfg  *antecedent.Config
+		want string
+	}{
+		{"nil config: the default", nil, antecedent.AdaptiveLasso.Explanation(cv.OneStandardError)},
+		{"textbook, minimum rule", &antecedent.Config{Selection: antecedent.PenalisedLasso, CV: cv.Settings{Rule: cv.MinimumLoss}}, antecedent.PenalisedLasso.Explanation(cv.MinimumLoss)},
+		{"stability, default threshold", &antecedent.Config{Stability: antecedent.Stability{Pairs: 25}}, "on 25 pairs of complementary random halves"},
+		{"stability, threshold 0.9", &antecedent.Config{Stability: antecedent.Stability{Pairs: 25, Threshold: 0.9}}, "in at least 90% of the halves"},
+	} {
+		if got := c.cfg.SelectionExplanation(); !strings.Contains(got, c.want) {
+			t.Errorf("%s: %q, want %q", c.name, got, c.want)
+		}
+	}
+	if got := (&antecedent.Config{Stability: antecedent.Stability{Pairs: 25}}).SelectionExplanation(); !strings.Contains(got, "at least 75%") {
+		t.Errorf("stability's default threshold (0.75, Config) not in %q", got)
+	}
+}
+
+// TestSelectionExplanationInREADME checks that the README carries the
+// default procedure's two sentences word for word (line breaks aside), as
+// issue 21 asks.
+func TestSelectionExplanationInREADME(t *testing.T) {
+	b, err := os.ReadFile("README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	readme := strings.Join(strings.Fields(string(b)), " ")
+	want := (*antecedent.Config)(nil).SelectionExplanation()
+	if !strings.Contains(readme, want) {
+		t.Errorf("README lacks the default procedure's explanation:\n%s", want)
+	}
+}
