@@ -66,6 +66,12 @@ type residualEngine struct {
 	dev     float64 // deviance at the current eta, when devOK
 	devOK   bool
 	wantDev bool // working also computes the deviance, sharing its exponentials
+	// ex holds e^−|η| at the eta of the last binomial working weights,
+	// from which deviance forms the deviance when it is asked for (one
+	// logarithm per row, not paid at reweighting steps that end up not
+	// needing it); exOld holds it at etaOld during a descent.
+	ex, exOld []float64
+	binomial  bool
 }
 
 func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
@@ -156,6 +162,11 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	if !r.gaussian {
 		e.qw = make([]float64, n)
 		e.etaOld = make([]float64, n)
+	}
+	if _, ok := r.fam.(Binomial); ok {
+		e.binomial = true
+		e.ex = make([]float64, n)
+		e.exOld = make([]float64, n)
 	}
 	e.working()
 	if r.gaussian {
@@ -250,7 +261,7 @@ func (e *residualEngine) working() {
 		}
 		e.sumH = 1
 	} else if _, ok := e.r.fam.(Binomial); ok {
-		e.workingBinomial(e.wantDev && !e.devOK)
+		e.workingBinomial()
 	} else {
 		fam := e.r.fam
 		var dev float64
@@ -288,21 +299,17 @@ func (e *residualEngine) working() {
 // the deviance. With d = 1/(1+e^−|η|), the weight μ(1−μ) equals e^−|η|·d²
 // without cancellation; it is bounded below as Binomial.Working bounds μ.
 // The weighted residual h·(z−η) is ω·(y−μ) exactly.
-func (e *residualEngine) workingBinomial(wantDev bool) {
+func (e *residualEngine) workingBinomial() {
 	const hMin = ProbabilityBound * (1 - ProbabilityBound)
 	n := e.n
 	ys, etas, omega := e.y[:n], e.eta[:n], e.omega[:n]
-	h, q, qw := e.h[:n], e.q[:n], e.qw[:n]
-	// qw first holds e^−|η|; three simple loops run faster than one
-	// long one, whose chain of dependent operations stalls each row.
-	expNegAbs(qw, etas)
-	if wantDev {
-		// ½·deviance = log(1+e^η) − y·η = log1p(e^−|η|) + max(η, 0) − y·η.
-		e.dev, e.devOK = 2*halfDevianceSum(qw, etas, ys, omega)*e.total, true
-	}
+	h, q, qw, exs := e.h[:n], e.q[:n], e.qw[:n], e.ex[:n]
+	// Two simple loops run faster than one long one, whose chain of
+	// dependent operations stalls each row.
+	expNegAbs(exs, etas)
 	var sumH, sumQ float64
 	for t, y := range ys {
-		eta, ex := etas[t], qw[t]
+		eta, ex := etas[t], exs[t]
 		// neg is all ones for negative eta: the selection is branch-free,
 		// as the sign of eta is unpredictable.
 		neg := uint64(int64(math.Float64bits(eta)) >> 63)
@@ -521,6 +528,11 @@ func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
 		oldDev, oldDevOK := e.dev, e.devOK
+		if e.binomial && !oldDevOK {
+			// Keep the exponentials at etaOld: the deviance there is
+			// formed only if the step must be halved.
+			e.ex, e.exOld = e.exOld, e.ex
+		}
 		sw, ok, first := descend(e, lam, set, e.kktTol, true, e.r.maxSweeps-sweeps, e.active, e.signs)
 		sweeps += sw
 		step := e.updateEta()
@@ -541,6 +553,9 @@ func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 		// quadratic model is good; larger ones are halved until the
 		// penalised objective does not increase.
 		if step > 1 {
+			if e.binomial && !oldDevOK {
+				oldDev, oldDevOK = e.binomialDeviance(e.exOld, e.etaOld), true
+			}
 			fOld := e.objectiveAt(lam, set, e.etaOld, e.old, oldDev, oldDevOK)
 			fNew := e.objective(lam, set)
 			for halvings := 0; fNew > fOld+1e-13*math.Abs(fOld); halvings++ {
@@ -564,7 +579,7 @@ func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 				fNew = e.objective(lam, set)
 			}
 			if e.saturated() {
-				// A saturated fit has no finite optimum; runPath reports it.
+				// A saturated fit has no finite optimum; the path reports it.
 				return sweeps, true
 			}
 		}
@@ -704,6 +719,10 @@ func (e *residualEngine) deviance() float64 {
 	if e.devOK {
 		return e.dev
 	}
+	if e.binomial && e.fresh {
+		e.dev, e.devOK = e.binomialDeviance(e.ex, e.eta), true
+		return e.dev
+	}
 	for t, w := range e.omega {
 		d += w * e.unitDeviance(e.y[t], e.eta[t])
 	}
@@ -715,3 +734,9 @@ func (e *residualEngine) nullDeviance() float64 { return e.nullDev }
 func (e *residualEngine) excluded() []bool      { return e.excl }
 func (e *residualEngine) mode() Mode            { return ResidualMode }
 func (e *residualEngine) weight() float64       { return e.total }
+
+// binomialDeviance returns the binomial deviance at linear predictor eta
+// from ex = e^−|η|: ½·deviance = log1p(e^−|η|) + max(η, 0) − y·η.
+func (e *residualEngine) binomialDeviance(ex, eta []float64) float64 {
+	return 2 * halfDevianceSum(ex[:e.n], eta, e.y, e.omega) * e.total
+}
