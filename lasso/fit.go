@@ -375,6 +375,67 @@ type walk struct {
 	set   []int
 	b     []float64
 	prev  float64
+	// With an engine that bounds the gradients' drift (see drifter),
+	// g[j] of a predictor outside the set may be stale: it was exact
+	// when formed, and the gradient has moved by at most slack[j] since.
+	drift drifter
+	slack []float64
+	skip  []bool
+}
+
+// drifter is an engine that bounds how far the gradients of all
+// predictors have moved, in one pass over the rows rather than one per
+// predictor.
+type drifter interface {
+	// drift returns D with |g_j(now) − g_j(then)| ≤ D·spread(j) for
+	// every predictor, where then is the previous call (the first call
+	// returns 0). It forms the working weights at the current fit, as
+	// gradient does.
+	drift() float64
+	// spread returns the factor of predictor j in drift's bound.
+	spread(j int) float64
+}
+
+// moved adds the engine's drift since the gradients were last formed to
+// every predictor's slack.
+func (w *walk) moved() {
+	d := w.drift.drift()
+	for j := range w.slack {
+		w.slack[j] += d * w.drift.spread(j)
+	}
+}
+
+// settle forms exactly the gradient of every predictor outside the set
+// whose bound |g_j| + slack_j does not fall clearly below thr(j), so that
+// comparing g_j with thr(j) decides as the exact gradient would. Others
+// keep a stale g_j whose comparison gives the same answer (|g_j| + slack_j
+// < thr(j)). Without a drifter every gradient is exact already.
+func (w *walk) settle(thr func(j int) float64) {
+	if w.drift == nil {
+		return
+	}
+	excl := w.e.excluded()
+	any := false
+	for j := range w.skip {
+		w.skip[j] = true
+		if w.inSet[j] || excl[j] || w.slack[j] == 0 {
+			continue
+		}
+		// A margin far above rounding in the sums keeps the bound safe.
+		bound := (math.Abs(w.g[j]) + w.slack[j]) * (1 + 1e-8)
+		if !(bound < thr(j)) {
+			w.skip[j], any = false, true
+		}
+	}
+	if !any {
+		return
+	}
+	w.e.gradient(w.g, w.skip)
+	for j, s := range w.skip {
+		if !s {
+			w.slack[j] = 0
+		}
+	}
 }
 
 // newWalk fits the unpenalised predictors and the intercept, and fixes the
@@ -434,6 +495,9 @@ func newWalk(ctx context.Context, e engine, v []float64, r resolved, rows int) (
 		}
 	}
 	w.pens, w.g, w.b = pens, g, make([]float64, p)
+	if dr, ok := e.(drifter); ok && dr.drift() == 0 {
+		w.drift, w.slack, w.skip = dr, make([]float64, p), make([]bool, p)
+	}
 	w.prev = math.Max(lmax, pens[0])
 	return w, nil
 }
@@ -457,6 +521,7 @@ func (w *walk) next(ctx context.Context) (bool, error) {
 	p := len(v)
 	excl := e.excluded()
 	// Sequential strong rule.
+	w.settle(func(j int) float64 { return r.a * v[j] * (2*lam - w.prev) })
 	for j := 0; j < p; j++ {
 		if !w.inSet[j] && !excl[j] && math.Abs(g[j]) >= r.a*v[j]*(2*lam-w.prev) {
 			w.inSet[j] = true
@@ -472,7 +537,12 @@ func (w *walk) next(ctx context.Context) (bool, error) {
 			w.done = true
 			return false, nil
 		}
-		e.gradient(g, w.inSet)
+		if w.drift == nil {
+			e.gradient(g, w.inSet)
+		} else {
+			w.moved()
+			w.settle(func(j int) float64 { return r.a * v[j] * lam })
+		}
 		violated := false
 		for j := 0; j < p; j++ {
 			if !w.inSet[j] && !excl[j] && math.Abs(g[j]) > r.a*v[j]*lam {

@@ -6,6 +6,7 @@
 //	go run ./bench/pathcut -out cut.json                 # the default
 //	go run ./bench/pathcut -whole -out whole.json        # every penalty
 //	go run ./bench/pathcut -compare whole.json,cut.json
+//	go run ./bench/pathcut -windows -n 5000 -p 40 -networks 3   # the rule's window on whole paths
 //
 // The same command built from an older commit (without -whole) gives the
 // "before" file for a comparison across commits. Networks are drawn by
@@ -47,7 +48,14 @@ func main() {
 	whole := flag.Bool("whole", false, "fit every penalty (cv.Settings.WholePath)")
 	networks := flag.Int("networks", 4, "networks per setting")
 	compare := flag.String("compare", "", "compare two answer files: a.json,b.json")
+	win := flag.Bool("windows", false, "check the rule's window on whole binomial paths instead (see -n, -p)")
+	n := flag.Int("n", 5_000, "rows, with -windows")
+	p := flag.Int("p", 40, "variables, with -windows")
 	flag.Parse()
+	if *win {
+		windows(*n, *p, *networks)
+		return
+	}
 	if *compare != "" {
 		if err := compareFiles(*compare); err != nil {
 			log.Fatal(err)
