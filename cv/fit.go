@@ -331,21 +331,28 @@ func (fw *foldWalk) advance(ctx context.Context, f, end int) error {
 
 // stopAfter returns the number of penalties to keep when the stopping rule
 // (see pastMinimum) holds at a penalty index in [from, to), the first such;
-// 0 when it holds at none.
+// 0 when it holds at none. The curve is summarised as finish will (mean
+// and standard error), so the rule reads the numbers the choice reads.
 func stopAfter(folds []foldPath, from, to int, larger bool) int {
-	mean := make([]float64, to)
-	for k := range mean {
-		var s float64
-		for _, fp := range folds {
-			s += fp.scores()[k]
+	loss := make([][]float64, len(folds))
+	var rows [][]rowSums
+	for f, fp := range folds {
+		loss[f] = fp.scores()[:to]
+		if fw, ok := fp.(*foldWalk); ok && fw.rows != nil {
+			rows = append(rows, fw.rows[:to])
 		}
-		mean[k] = s / float64(len(folds))
+	}
+	curve := make([]Point, to)
+	summarise(curve, loss, rows)
+	mean, se := make([]float64, to), make([]float64, to)
+	for k, p := range curve {
+		mean[k], se[k] = p.Mean, p.SE
 		if larger {
 			mean[k] = -mean[k]
 		}
 	}
 	for k := from; k < to; k++ {
-		if pastMinimum(mean[:k+1]) {
+		if pastMinimum(mean[:k+1], se[:k+1]) {
 			return k + 1
 		}
 	}

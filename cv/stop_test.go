@@ -9,8 +9,9 @@ import (
 	"github.com/antecedent-lab/antecedent/lasso"
 )
 
-// The stopping rule needs ten strict rises in a row; a flat step, a fall
-// or a NaN resets it.
+// The stopping rule needs ten strict rises in a row and a rise past the
+// minimum of 0.3 of its standard error; a flat step, a fall or a NaN
+// resets it.
 func TestPastMinimum(t *testing.T) {
 	rising := func(n int) []float64 {
 		m := []float64{5, 4, 3}
@@ -22,17 +23,23 @@ func TestPastMinimum(t *testing.T) {
 	cases := []struct {
 		name string
 		mean []float64
+		se   float64
 		want bool
 	}{
-		{"ten rises", rising(10), true},
-		{"nine rises", rising(9), false},
-		{"flat step in the stretch", append(rising(10)[:8], 3.05, 3.05, 3.06, 3.07, 3.08, 3.09), false},
-		{"fall at the end", append(rising(10), 3.0), false},
-		{"NaN in the stretch", append(rising(10)[:9], math.NaN(), 4, 5), false},
-		{"short", []float64{1, 2}, false},
+		{"ten rises", rising(10), 0.2, true},
+		{"ten rises, too small against the SE", rising(10), 0.5, false},
+		{"nine rises", rising(9), 0.2, false},
+		{"flat step in the stretch", append(rising(10)[:8], 3.05, 3.05, 3.06, 3.07, 3.08, 3.09), 0.2, false},
+		{"fall at the end", append(rising(10), 3.0), 0.2, false},
+		{"NaN in the stretch", append(rising(10)[:9], math.NaN(), 4, 5), 0.2, false},
+		{"short", []float64{1, 2}, 0.2, false},
 	}
 	for _, c := range cases {
-		if got := pastMinimum(c.mean); got != c.want {
+		se := make([]float64, len(c.mean))
+		for i := range se {
+			se[i] = c.se
+		}
+		if got := pastMinimum(c.mean, se); got != c.want {
 			t.Errorf("%s: pastMinimum = %v, want %v", c.name, got, c.want)
 		}
 	}

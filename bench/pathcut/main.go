@@ -88,8 +88,8 @@ func main() {
 				}
 				for _, nd := range res.Nodes {
 					key := fmt.Sprintf("n%d p%d binary%g seed%d %s %s", s.n, s.p, s.binary, seed, sel, nd.Name)
-					answers[key] = nodeAnswer{Parents: nd.Parents, Best: float64(nd.BestPenalty), OneSE: float64(nd.OneSEPenalty),
-						Penalty: float64(nd.Penalty), CurvePoints: len(nd.Curve), Fitted: nd.Fitted}
+					answers[key] = nodeAnswer{Parents: nd.Parents, Best: finite(float64(nd.BestPenalty)), OneSE: finite(float64(nd.OneSEPenalty)),
+						Penalty: finite(float64(nd.Penalty)), CurvePoints: len(nd.Curve), Fitted: nd.Fitted}
 				}
 			}
 		}
@@ -150,8 +150,17 @@ func compareFiles(list string) error {
 	return nil
 }
 
+// finite returns x, or −1 for the NaN penalties of unfitted nodes (JSON
+// has no NaN).
+func finite(x float64) float64 {
+	if x != x {
+		return -1
+	}
+	return x
+}
+
 // close reports whether two penalties agree to 1e-9 relative (NaN equals
-// NaN: unfitted nodes).
+// NaN).
 func close(x, y float64) bool {
 	if x != x || y != y {
 		return x != x && y != y

@@ -15,7 +15,8 @@ import (
 // all-binary networks on all earlier variables, 10 stratified folds, 100
 // penalties) and reports, for several windows, on how many nodes the rise
 // rule of cv (stop once the mean held-out loss rose at each of the last w
-// penalties) would have moved the minimum, and the penalties it keeps.
+// penalties, and past the minimum by 0.3 of its standard error) would
+// have moved the minimum, and the penalties it keeps.
 func windows(n, p, networks int) {
 	ws := []int{3, 5, 10, 15}
 	moved := make([]int, len(ws))
@@ -51,13 +52,14 @@ func windows(n, p, networks int) {
 					log.Fatal(err)
 				}
 				mean := make([]float64, len(res.Curve))
+				se := make([]float64, len(res.Curve))
 				for k, c := range res.Curve {
-					mean[k] = c.Mean
+					mean[k], se[k] = c.Mean, c.SE
 				}
 				nodes++
 				total += len(mean)
 				for i, w := range ws {
-					k := stopWith(mean, w)
+					k := stopWith(mean, se, w)
 					kept[i] += k
 					if argmin(mean[:k]) != res.Best {
 						moved[i]++
@@ -75,10 +77,12 @@ func windows(n, p, networks int) {
 	}
 }
 
-// stopWith returns the penalties kept by the rise rule with window w.
-func stopWith(mean []float64, w int) int {
+// stopWith returns the penalties kept by the rise rule with window w and
+// cv's least rise (0.3 of the minimum's standard error).
+func stopWith(mean, se []float64, w int) int {
 	for k := w + 1; k <= len(mean); k++ {
-		rose := true
+		best := argmin(mean[:k])
+		rose := mean[k-1]-mean[best] >= 0.3*se[best]
 		for t := k - w; t < k; t++ {
 			if !(mean[t] > mean[t-1]) {
 				rose = false
