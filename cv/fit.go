@@ -199,6 +199,10 @@ type foldPath interface {
 // or fewer when the rule stopped the paths (Status Stopped).
 func lockstep(ctx context.Context, c *Settings, full *lasso.Stepper, folds []foldPath, start func(ctx context.Context, f int) (foldPath, error)) (int, error) {
 	grid := full.Penalties()
+	if len(grid) == 0 {
+		// The unpenalised fit failed before any penalty.
+		return 0, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Path().Status)
+	}
 	stop := len(grid)
 	for done := 0; done < stop; {
 		end := min(done+stopBlock, stop)
