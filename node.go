@@ -245,7 +245,7 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 	n.OneSEPenalty = Number(res.Curve[res.OneSE].Penalty)
 	n.Measure = res.Measure
 	n.Status = full.Status.String()
-	if full.Status != lasso.Completed {
+	if full.Status != lasso.Completed && full.Status != lasso.Stopped {
 		n.Warnings = append(n.Warnings, fmt.Sprintf("path ended early (%v) after %d penalties", full.Status, full.Len()))
 	}
 	for _, c := range res.Curve {

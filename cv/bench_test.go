@@ -51,10 +51,10 @@ func fixture(binomial bool) ([][]float64, []float64) {
 	return x, y
 }
 
-func benchCV(b *testing.B, binomial bool, mode lasso.Mode) {
+func benchCV(b *testing.B, binomial bool, mode lasso.Mode, whole bool) {
 	x, y := fixture(binomial)
 	folds, _ := cv.Random(len(y), 10, 1)
-	s := &cv.Settings{Path: lasso.Settings{Mode: mode}}
+	s := &cv.Settings{Path: lasso.Settings{Mode: mode}, WholePath: whole}
 	if binomial {
 		s.Path.Family = lasso.Binomial{}
 	}
@@ -66,6 +66,10 @@ func benchCV(b *testing.B, binomial bool, mode lasso.Mode) {
 	}
 }
 
-func BenchmarkGaussianN100kP50(b *testing.B)         { benchCV(b, false, lasso.GramMode) }
-func BenchmarkGaussianResidualN100kP50(b *testing.B) { benchCV(b, false, lasso.ResidualMode) }
-func BenchmarkBinomialN100kP50(b *testing.B)         { benchCV(b, true, 0) }
+func BenchmarkGaussianN100kP50(b *testing.B)         { benchCV(b, false, lasso.GramMode, false) }
+func BenchmarkGaussianResidualN100kP50(b *testing.B) { benchCV(b, false, lasso.ResidualMode, false) }
+func BenchmarkBinomialN100kP50(b *testing.B)         { benchCV(b, true, 0, false) }
+
+// BenchmarkBinomialWholePathN100kP50 fits every penalty (WholePath), the
+// cost of the binomial case before paths stopped past their minimum.
+func BenchmarkBinomialWholePathN100kP50(b *testing.B) { benchCV(b, true, 0, true) }

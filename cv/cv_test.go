@@ -338,7 +338,8 @@ func TestStandardErrorFoldScheme(t *testing.T) {
 		}
 	}
 	d := lasso.Data{Columns: x, Response: y}
-	s := &cv.Settings{Path: lasso.Settings{Family: lasso.Binomial{}, NumPenalties: 30}}
+	// The whole path: the check reads the standard error at its end.
+	s := &cv.Settings{Path: lasso.Settings{Family: lasso.Binomial{}, NumPenalties: 30}, WholePath: true}
 	strat, err := cv.Stratified(y, 10, 3)
 	if err != nil {
 		t.Fatal(err)

@@ -16,6 +16,15 @@
 // Learning, 2nd ed., sec. 7.10). For AUC larger is better and the rule is
 // mirrored.
 //
+// The full-data path and the folds' paths are fitted in step, in blocks
+// of ten penalties, and all stop once the mean held-out loss has risen at
+// each of the last ten penalties: the minimum then lies before that
+// stretch, and the penalties past it, which cost the most (the most
+// predictors are active there), would not change the choice. The rule is
+// a heuristic checked on simulated networks (bench/pathcut), not a
+// guarantee; Settings.WholePath fits every penalty. The curve then ends
+// where the paths stopped, and the full path's Status is lasso.Stopped.
+//
 // FitMoments does the same for Gaussian responses from moments alone (see
 // lasso.Moments): training sets are totals minus held-out folds and the
 // held-out squared error is a quadratic form, so after one pass over the

@@ -21,6 +21,11 @@ type Settings struct {
 	Rule Rule `json:"rule"`
 	// Workers bounds the folds fitted at once. Zero means GOMAXPROCS.
 	Workers int `json:"workers,omitempty"`
+	// WholePath fits every penalty of the grid. By default Fit fits the
+	// full-data path and the folds' paths in step and ends them all once
+	// the mean held-out loss has risen at each of the last ten penalties
+	// (see Fit); FitMoments always fits the whole grid.
+	WholePath bool `json:"whole_path,omitempty"`
 }
 
 // Validate returns the error Fit would return for these settings, as far
@@ -148,68 +153,232 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		all.Rows = append(all.Rows, sp.held...)
 	}
 	slices.Sort(all.Rows)
-	full, err := lasso.Fit(ctx, all, &c.Path)
+	full, err := lasso.Start(ctx, all, &c.Path)
 	if err != nil {
 		return nil, err
 	}
-	if full.Len() == 0 {
-		return nil, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Status)
-	}
-	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K), FoldPaths: make([]*lasso.Path, folds.K),
-		rows: make([][]rowSums, folds.K)}
-	grid := full.Penalties
-	err = pool.Run(ctx, c.Workers, folds.K, func(ctx context.Context, f int) error {
-		ps := c.Path
-		ps.Penalties = grid
-		fd := d
-		fd.Rows = splits[f].train
-		path, err := lasso.Fit(ctx, fd, &ps)
-		if err != nil {
-			return fmt.Errorf("cv: fold %d: %w", f, err)
-		}
-		if path.Len() == 0 {
-			return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
-		}
-		held := splits[f].held
-		y := make([]float64, len(held))
-		var w []float64
-		if d.Weights != nil {
-			w = make([]float64, len(held))
-		}
-		for t, i := range held {
-			y[t] = d.Response[i]
-			if w != nil {
-				w[t] = d.Weights[i]
-			}
-		}
-		mu := make([]float64, len(held))
-		vals := make([]float64, len(grid))
-		var rows []rowSums
-		if c.Measure.perRow() {
-			rows = make([]rowSums, len(grid))
-		}
-		ho := gatherHeldOut(path, d.Columns, held)
-		for k := range grid {
-			ho.meanTo(mu, path, min(k, path.Len()-1))
-			v, err := evaluate(c.Measure, fam, mu, y, w)
-			if err != nil {
-				return fmt.Errorf("cv: fold %d: %w", f, err)
-			}
-			vals[k] = v
-			if rows != nil {
-				rows[k] = sumRows(c.Measure, fam, mu, y, w)
-			}
-		}
-		r.FoldValues[f] = vals
-		r.rows[f] = rows
-		r.FoldPaths[f] = path
-		return nil
+	grid := full.Penalties()
+	folder := make([]foldPath, folds.K)
+	stop, err := lockstep(ctx, &c, full, folder, func(ctx context.Context, f int) (foldPath, error) {
+		return startFold(ctx, d, splits[f], grid, &c, fam)
 	})
 	if err != nil {
 		return nil, err
 	}
-	r.finish(grid, full.NonZero)
+	r := &Result{Full: full.Path(), Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, folds.K), FoldPaths: make([]*lasso.Path, folds.K),
+		rows: make([][]rowSums, folds.K)}
+	for f, fp := range folder {
+		fw := fp.(*foldWalk)
+		r.FoldValues[f] = fw.vals[:stop]
+		if fw.rows != nil {
+			r.rows[f] = fw.rows[:stop]
+		}
+		r.FoldPaths[f] = fw.stepper.Path()
+	}
+	r.finish(r.Full.Penalties, r.Full.NonZero)
 	return r, nil
+}
+
+// foldPath is one fold's path in a lockstep cross-validation.
+type foldPath interface {
+	// advance fits fold f's path up to penalty index end (exclusive) and
+	// scores its held-out rows at each new penalty. A path that ended
+	// early (saturation) scores the remaining penalties with its last
+	// fit.
+	advance(ctx context.Context, f, end int) error
+	// scores returns the held-out measure at the penalties scored.
+	scores() []float64
+	path() *lasso.Stepper
+}
+
+// lockstep fits the full-data path and the folds' paths (started by start
+// on first use, into folds) in blocks of penalties: the full path, then
+// every fold in parallel, then, unless c.WholePath, the stopping rule on
+// the mean curve so far (see pastMinimum). It returns the number of
+// penalties kept and leaves every path cut to it: the full path's length,
+// or fewer when the rule stopped the paths (Status Stopped).
+func lockstep(ctx context.Context, c *Settings, full *lasso.Stepper, folds []foldPath, start func(ctx context.Context, f int) (foldPath, error)) (int, error) {
+	grid := full.Penalties()
+	if len(grid) == 0 {
+		// The unpenalised fit failed before any penalty.
+		return 0, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Path().Status)
+	}
+	stop := len(grid)
+	for done := 0; done < stop; {
+		end := min(done+stopBlock, stop)
+		for full.Path().Len() < end {
+			if more, err := full.Next(ctx); err != nil {
+				return 0, err
+			} else if !more {
+				break
+			}
+		}
+		if full.Path().Len() == 0 {
+			return 0, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Path().Status)
+		}
+		if full.Path().Len() < end {
+			stop = full.Path().Len() // the full path ended early
+			end = stop
+		}
+		err := pool.Run(ctx, c.Workers, len(folds), func(ctx context.Context, f int) error {
+			if folds[f] == nil {
+				fp, err := start(ctx, f)
+				if err != nil {
+					return err
+				}
+				folds[f] = fp
+			}
+			return folds[f].advance(ctx, f, end)
+		})
+		if err != nil {
+			return 0, err
+		}
+		if !c.WholePath {
+			if k := stopAfter(folds, done, end, c.Measure.LargerIsBetter()); k > 0 {
+				stop = k
+			}
+		}
+		done = end
+	}
+	full.Stop()
+	cut(full.Path(), stop, len(grid))
+	for _, fp := range folds {
+		fp.path().Stop()
+		cut(fp.path().Path(), stop, len(grid))
+	}
+	return stop, nil
+}
+
+// stopBlock is the number of penalties every path of a cross-validation
+// fits before the stopping rule looks at the curve again. The rule is
+// applied penalty by penalty, so the result does not depend on it.
+const stopBlock = 10
+
+// foldWalk is one fold's path, fitted in step with the others, and its
+// held-out scores.
+type foldWalk struct {
+	stepper *lasso.Stepper
+	held    []int
+	y, w    []float64
+	mu      []float64
+	ho      *heldOut
+	gath    int // penalties whose predictors ho holds
+	vals    []float64
+	rows    []rowSums
+	measure Measure
+	fam     lasso.Family
+	cols    [][]float64
+}
+
+func (fw *foldWalk) scores() []float64    { return fw.vals }
+func (fw *foldWalk) path() *lasso.Stepper { return fw.stepper }
+
+func startFold(ctx context.Context, d lasso.Data, sp split, grid []float64, c *Settings, fam lasso.Family) (foldPath, error) {
+	ps := c.Path
+	ps.Penalties = grid
+	fd := d
+	fd.Rows = sp.train
+	st, err := lasso.Start(ctx, fd, &ps)
+	if err != nil {
+		return nil, err
+	}
+	fw := &foldWalk{stepper: st, held: sp.held, measure: c.Measure, fam: fam, cols: d.Columns,
+		y: make([]float64, len(sp.held)), mu: make([]float64, len(sp.held)), vals: make([]float64, 0, len(grid))}
+	if d.Weights != nil {
+		fw.w = make([]float64, len(sp.held))
+	}
+	for t, i := range sp.held {
+		fw.y[t] = d.Response[i]
+		if fw.w != nil {
+			fw.w[t] = d.Weights[i]
+		}
+	}
+	if c.Measure.perRow() {
+		fw.rows = make([]rowSums, 0, len(grid))
+	}
+	return fw, nil
+}
+
+func (fw *foldWalk) advance(ctx context.Context, f, end int) error {
+	path := fw.stepper.Path()
+	for path.Len() < end {
+		more, err := fw.stepper.Next(ctx)
+		if err != nil {
+			return err
+		}
+		if !more {
+			break
+		}
+	}
+	if path.Len() == 0 {
+		return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
+	}
+	if fw.ho == nil {
+		fw.ho = gatherHeldOut(path, fw.cols, fw.held)
+	} else {
+		fw.ho.extend(path, fw.cols, fw.held, fw.gath)
+	}
+	fw.gath = path.Len()
+	for k := len(fw.vals); k < end; k++ {
+		fw.ho.meanTo(fw.mu, path, min(k, path.Len()-1))
+		v, err := evaluate(fw.measure, fw.fam, fw.mu, fw.y, fw.w)
+		if err != nil {
+			return fmt.Errorf("cv: fold %d: %w", f, err)
+		}
+		fw.vals = append(fw.vals, v)
+		if fw.rows != nil {
+			fw.rows = append(fw.rows, sumRows(fw.measure, fw.fam, fw.mu, fw.y, fw.w))
+		}
+	}
+	return nil
+}
+
+// stopAfter returns the number of penalties to keep when the stopping rule
+// (see pastMinimum) holds at a penalty index in [from, to), the first such;
+// 0 when it holds at none. The curve is summarised as finish will (mean
+// and standard error), so the rule reads the numbers the choice reads.
+func stopAfter(folds []foldPath, from, to int, larger bool) int {
+	loss := make([][]float64, len(folds))
+	var rows [][]rowSums
+	for f, fp := range folds {
+		loss[f] = fp.scores()[:to]
+		if fw, ok := fp.(*foldWalk); ok && fw.rows != nil {
+			rows = append(rows, fw.rows[:to])
+		}
+	}
+	curve := make([]Point, to)
+	summarise(curve, loss, rows)
+	mean, se := make([]float64, to), make([]float64, to)
+	for k, p := range curve {
+		mean[k], se[k] = p.Mean, p.SE
+		if larger {
+			mean[k] = -mean[k]
+		}
+	}
+	for k := from; k < to; k++ {
+		if pastMinimum(mean[:k+1], se[:k+1]) {
+			return k + 1
+		}
+	}
+	return 0
+}
+
+// cut shortens path to its first k penalties of a grid of n, if longer;
+// a path cut short of the grid that had not ended otherwise is Stopped.
+func cut(p *lasso.Path, k, n int) {
+	if p.Status == lasso.Completed && k < n {
+		p.Status = lasso.Stopped
+	}
+	if p.Len() <= k {
+		return
+	}
+	p.Penalties = p.Penalties[:k]
+	p.Intercept = p.Intercept[:k]
+	p.Coefficients = p.Coefficients[:k]
+	p.Explained = p.Explained[:k]
+	p.Deviance = p.Deviance[:k]
+	p.NonZero = p.NonZero[:k]
+	p.Sweeps = p.Sweeps[:k]
 }
 
 type split struct{ train, held []int }

@@ -16,39 +16,44 @@ type heldOut struct {
 func gatherHeldOut(path *lasso.Path, cols [][]float64, rows []int) *heldOut {
 	p := len(path.Predictors)
 	h := &heldOut{dense: make([][]float64, p), ones: make([][]int32, p), bin: make([]bool, p), rows: len(rows)}
-	used := make([]bool, p)
-	for _, s := range path.Coefficients {
+	h.extend(path, cols, rows, 0)
+	return h
+}
+
+// extend gathers the held-out values of the predictors that the fits of
+// path from penalty index from on use and h lacks.
+func (h *heldOut) extend(path *lasso.Path, cols [][]float64, rows []int, from int) {
+	for _, s := range path.Coefficients[from:] {
 		for _, j := range s.Index {
-			used[j] = true
-		}
-	}
-	for j, u := range used {
-		if !u {
-			continue
-		}
-		c := cols[path.Predictors[j]]
-		bin := len(rows) < 1<<31
-		var ones []int32
-		for t, i := range rows {
-			x := c[i]
-			if x == 1 {
-				ones = append(ones, int32(t))
-			} else if x != 0 {
-				bin = false
-				break
+			if !h.bin[j] && h.dense[j] == nil {
+				h.gather(j, cols[path.Predictors[j]], rows)
 			}
 		}
-		if bin {
-			h.bin[j], h.ones[j] = true, ones
-			continue
-		}
-		col := make([]float64, len(rows))
-		for t, i := range rows {
-			col[t] = c[i]
-		}
-		h.dense[j] = col
 	}
-	return h
+}
+
+// gather stores the held-out values of column c as predictor j.
+func (h *heldOut) gather(j int, c []float64, rows []int) {
+	bin := len(rows) < 1<<31
+	var ones []int32
+	for t, i := range rows {
+		x := c[i]
+		if x == 1 {
+			ones = append(ones, int32(t))
+		} else if x != 0 {
+			bin = false
+			break
+		}
+	}
+	if bin {
+		h.bin[j], h.ones[j] = true, ones
+		return
+	}
+	col := make([]float64, len(rows))
+	for t, i := range rows {
+		col[t] = c[i]
+	}
+	h.dense[j] = col
 }
 
 // meanTo writes the fitted means of the path's fit at penalty index k for

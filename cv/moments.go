@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 
-	"github.com/antecedent-lab/antecedent/internal/pool"
 	"github.com/antecedent-lab/antecedent/lasso"
 )
 
@@ -38,42 +37,69 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 			return nil, fmt.Errorf("%w: fold %d has moments of %d variables, total %d", ErrLength, f, h.Vars, total.Vars)
 		}
 	}
-	full, err := lasso.FitMoments(ctx, total, response, predictors, &c.Path)
+	full, err := lasso.StartMoments(ctx, total, response, predictors, &c.Path)
 	if err != nil {
 		return nil, err
 	}
-	if full.Len() == 0 {
-		return nil, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Status)
-	}
-	r := &Result{Full: full, Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, len(held))}
-	grid := full.Penalties
-	err = pool.Run(ctx, c.Workers, len(held), func(ctx context.Context, f int) error {
+	grid := full.Penalties()
+	folder := make([]foldPath, len(held))
+	stop, err := lockstep(ctx, &c, full, folder, func(ctx context.Context, f int) (foldPath, error) {
 		if !(total.Weight-held[f].Weight > 0) {
-			return fmt.Errorf("%w: fold %d leaves no training rows", ErrFolds, f)
+			return nil, fmt.Errorf("%w: fold %d leaves no training rows", ErrFolds, f)
 		}
 		ps := c.Path
 		ps.Penalties = grid
-		path, err := lasso.FitMomentsExcluding(ctx, total, held[f], response, predictors, &ps)
+		st, err := lasso.StartMomentsExcluding(ctx, total, held[f], response, predictors, &ps)
 		if err != nil {
-			return fmt.Errorf("cv: fold %d: %w", f, err)
+			return nil, fmt.Errorf("cv: fold %d: %w", f, err)
 		}
-		if path.Len() == 0 {
-			return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
-		}
-		vals := make([]float64, len(grid))
-		b := make([]float64, len(predictors))
-		for k := range grid {
-			b0 := path.CoefficientsTo(b, min(k, path.Len()-1))
-			vals[k] = heldOutMSE(held[f], response, predictors, b0, b)
-		}
-		r.FoldValues[f] = vals
-		return nil
+		return &foldMoments{stepper: st, held: held[f], response: response, predictors: predictors,
+			b: make([]float64, len(predictors)), vals: make([]float64, 0, len(grid))}, nil
 	})
 	if err != nil {
 		return nil, err
 	}
-	r.finish(grid, full.NonZero)
+	r := &Result{Full: full.Path(), Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, len(held))}
+	for f, fp := range folder {
+		r.FoldValues[f] = fp.scores()[:stop]
+	}
+	r.finish(r.Full.Penalties, r.Full.NonZero)
 	return r, nil
+}
+
+// foldMoments is one fold's path fitted from moments, scored from its
+// held-out moments.
+type foldMoments struct {
+	stepper    *lasso.Stepper
+	held       *lasso.Moments
+	response   int
+	predictors []int
+	b          []float64
+	vals       []float64
+}
+
+func (fm *foldMoments) scores() []float64    { return fm.vals }
+func (fm *foldMoments) path() *lasso.Stepper { return fm.stepper }
+
+func (fm *foldMoments) advance(ctx context.Context, f, end int) error {
+	path := fm.stepper.Path()
+	for path.Len() < end {
+		more, err := fm.stepper.Next(ctx)
+		if err != nil {
+			return err
+		}
+		if !more {
+			break
+		}
+	}
+	if path.Len() == 0 {
+		return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
+	}
+	for k := len(fm.vals); k < end; k++ {
+		b0 := path.CoefficientsTo(fm.b, min(k, path.Len()-1))
+		fm.vals = append(fm.vals, heldOutMSE(fm.held, fm.response, fm.predictors, b0, fm.b))
+	}
+	return nil
 }
 
 // heldOutMSE returns Σ w (y − b0 − x·b)² / W over the rows behind m.

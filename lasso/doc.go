@@ -68,6 +68,15 @@
 // explained reaches SaturationLimit (perfect separation, for instance) ends
 // early with Status Saturated instead of diverging.
 //
+// A Stepper (Start, Next) fits the same path one penalty at a time, so a
+// caller such as cross-validation can stop it once the rest is of no use.
+// The strong rule and the KKT check need the gradient of every predictor
+// outside the screened set after each penalty; the residual engine bounds
+// in one pass over the rows how far all of them can have moved since they
+// were last formed (Cauchy–Schwarz with the observation weights), and forms
+// only those whose decision the bound leaves open, so the answer is that of
+// the exact check.
+//
 // Inputs are never modified and never copied: Data refers to the caller's
 // columns and selects rows and predictors by index, so cross-validation and
 // graph discovery fit many folds and nodes from one dataset.

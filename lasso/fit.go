@@ -30,8 +30,28 @@ type Data struct {
 // so screening never changes the answer. It returns an error for bad input
 // (mismatched lengths, NaN or Inf, no rows, no predictors, a constant
 // response, a response the family refuses, bad weights or penalties) and
-// ctx.Err() when ctx is cancelled.
+// ctx.Err() when ctx is cancelled. Fit is Start followed by Next until the
+// path ends.
 func Fit(ctx context.Context, d Data, s *Settings) (*Path, error) {
+	st, err := Start(ctx, d, s)
+	if err != nil {
+		return nil, err
+	}
+	for {
+		more, err := st.Next(ctx)
+		if err != nil {
+			return nil, err
+		}
+		if !more {
+			return st.Path(), nil
+		}
+	}
+}
+
+// prepare checks d and s and returns the engine of their fit, the
+// penalty factors, the resolved settings, the predictors and the number of
+// rows.
+func prepare(d Data, s *Settings) (engine, []float64, resolved, []int, int, error) {
 	n := len(d.Response)
 	pred := d.Predictors
 	if pred == nil {
@@ -41,14 +61,14 @@ func Fit(ctx context.Context, d Data, s *Settings) (*Path, error) {
 		}
 	}
 	if len(pred) == 0 {
-		return nil, ErrNoPredictors
+		return nil, nil, resolved{}, nil, 0, ErrNoPredictors
 	}
 	for _, j := range pred {
 		if j < 0 || j >= len(d.Columns) {
-			return nil, fmt.Errorf("%w: predictor column %d of %d", ErrIndex, j, len(d.Columns))
+			return nil, nil, resolved{}, nil, 0, fmt.Errorf("%w: predictor column %d of %d", ErrIndex, j, len(d.Columns))
 		}
 		if len(d.Columns[j]) != n {
-			return nil, fmt.Errorf("%w: predictor column %d has %d rows, response has %d", ErrLength, j, len(d.Columns[j]), n)
+			return nil, nil, resolved{}, nil, 0, fmt.Errorf("%w: predictor column %d has %d rows, response has %d", ErrLength, j, len(d.Columns[j]), n)
 		}
 	}
 	rows := d.Rows
@@ -57,34 +77,34 @@ func Fit(ctx context.Context, d Data, s *Settings) (*Path, error) {
 		nr = len(rows)
 		for t, i := range rows {
 			if i < 0 || i >= n {
-				return nil, fmt.Errorf("%w: row %d (entry %d of Rows) of %d", ErrIndex, i, t, n)
+				return nil, nil, resolved{}, nil, 0, fmt.Errorf("%w: row %d (entry %d of Rows) of %d", ErrIndex, i, t, n)
 			}
 		}
 	}
 	if nr == 0 {
-		return nil, ErrNoRows
+		return nil, nil, resolved{}, nil, 0, ErrNoRows
 	}
 	if d.Weights != nil && len(d.Weights) != n {
-		return nil, fmt.Errorf("%w: %d weights for %d rows", ErrLength, len(d.Weights), n)
+		return nil, nil, resolved{}, nil, 0, fmt.Errorf("%w: %d weights for %d rows", ErrLength, len(d.Weights), n)
 	}
 	r, err := resolve(s, nr, len(pred))
 	if err != nil {
-		return nil, err
+		return nil, nil, resolved{}, nil, 0, err
 	}
 	v, err := penaltyScale(s, len(pred))
 	if err != nil {
-		return nil, err
+		return nil, nil, resolved{}, nil, 0, err
 	}
 	if err := checkWeights(d.Weights, rows); err != nil {
-		return nil, err
+		return nil, nil, resolved{}, nil, 0, err
 	}
 	rows = dropZeroWeights(d.Weights, rows, n)
 	if err := checkResponse(r.fam, d.Response, rows); err != nil {
-		return nil, err
+		return nil, nil, resolved{}, nil, 0, err
 	}
 	for _, j := range pred {
 		if err := checkFinite(d.Columns[j], rows, j); err != nil {
-			return nil, err
+			return nil, nil, resolved{}, nil, 0, err
 		}
 	}
 	useGram := r.gaussian && (r.mode == GramMode || (r.mode == AutoMode && len(pred) <= 500 && nr >= 2*len(pred)))
@@ -96,31 +116,17 @@ func Fit(ctx context.Context, d Data, s *Settings) (*Path, error) {
 		cols = append(cols, d.Response)
 		m := NewMoments(ColumnMeans(cols, d.Weights, rows))
 		if err := m.Accumulate(cols, d.Weights, rows); err != nil {
-			return nil, err
+			return nil, nil, r, nil, 0, err
 		}
 		local := make([]int, len(pred))
 		for j := range local {
 			local[j] = j
 		}
 		e, err := newGramEngine(m, len(pred), local, v, r)
-		if err != nil {
-			return nil, err
-		}
-		path, err := runPath(ctx, e, v, r, nr)
-		if path != nil {
-			path.Predictors = append([]int(nil), pred...)
-		}
-		return path, err
+		return e, v, r, pred, nr, err
 	}
 	e, err := newResidualEngine(d, pred, rows, v, r)
-	if err != nil {
-		return nil, err
-	}
-	path, err := runPath(ctx, e, v, r, nr)
-	if path != nil {
-		path.Predictors = append([]int(nil), pred...)
-	}
-	return path, err
+	return e, v, r, pred, nr, err
 }
 
 // FitMoments fits a Gaussian penalised path from precomputed moments (see
@@ -138,18 +144,43 @@ func FitMoments(ctx context.Context, m *Moments, response int, predictors []int,
 // a held-out fold), without forming their moments: entries are
 // subtracted as the solver reads them. Both must share one shift.
 func FitMomentsExcluding(ctx context.Context, total, held *Moments, response int, predictors []int, s *Settings) (*Path, error) {
-	if held.Vars != total.Vars || len(held.Shift) != len(total.Shift) {
-		return nil, fmt.Errorf("%w: moments of %d and %d variables", ErrLength, total.Vars, held.Vars)
-	}
-	for j, x := range held.Shift {
-		if x != total.Shift[j] {
-			return nil, fmt.Errorf("%w: moments have different shifts at variable %d", ErrSettings, j)
-		}
+	if err := sameShift(total, held); err != nil {
+		return nil, err
 	}
 	return fitMoments(ctx, momentsDiff{total, held}, total.Vars, response, predictors, s)
 }
 
+// sameShift returns an error unless total and held are moments of as many
+// variables about one shift.
+func sameShift(total, held *Moments) error {
+	if held.Vars != total.Vars || len(held.Shift) != len(total.Shift) {
+		return fmt.Errorf("%w: moments of %d and %d variables", ErrLength, total.Vars, held.Vars)
+	}
+	for j, x := range held.Shift {
+		if x != total.Shift[j] {
+			return fmt.Errorf("%w: moments have different shifts at variable %d", ErrSettings, j)
+		}
+	}
+	return nil
+}
+
 func fitMoments(ctx context.Context, m momentSource, vars, response int, predictors []int, s *Settings) (*Path, error) {
+	st, err := startMoments(ctx, m, vars, response, predictors, s)
+	if err != nil {
+		return nil, err
+	}
+	for {
+		more, err := st.Next(ctx)
+		if err != nil {
+			return nil, err
+		}
+		if !more {
+			return st.Path(), nil
+		}
+	}
+}
+
+func startMoments(ctx context.Context, m momentSource, vars, response int, predictors []int, s *Settings) (*Stepper, error) {
 	if len(predictors) == 0 {
 		return nil, ErrNoPredictors
 	}
@@ -183,11 +214,12 @@ func fitMoments(ctx context.Context, m momentSource, vars, response int, predict
 	if err != nil {
 		return nil, err
 	}
-	path, err := runPath(ctx, e, v, r, int(w))
-	if path != nil {
-		path.Predictors = append([]int(nil), predictors...)
+	wk, err := newWalk(ctx, e, v, r, int(w))
+	if err != nil {
+		return nil, err
 	}
-	return path, err
+	wk.path.Predictors = append([]int(nil), predictors...)
+	return &Stepper{w: wk}, nil
 }
 
 func penaltyScale(s *Settings, p int) ([]float64, error) {
@@ -329,7 +361,87 @@ type engine interface {
 	weight() float64
 }
 
-func runPath(ctx context.Context, e engine, v []float64, r resolved, rows int) (*Path, error) {
+// walk is a path fitted one penalty at a time: the state carried from one
+// penalty to the next.
+type walk struct {
+	e     engine
+	v     []float64
+	r     resolved
+	path  *Path
+	pens  []float64 // the whole sequence
+	done  bool
+	g     []float64
+	inSet []bool
+	set   []int
+	b     []float64
+	prev  float64
+	// With an engine that bounds the gradients' drift (see drifter),
+	// g[j] of a predictor outside the set may be stale: it was exact
+	// when formed, and the gradient has moved by at most slack[j] since.
+	drift drifter
+	slack []float64
+	skip  []bool
+}
+
+// drifter is an engine that bounds how far the gradients of all
+// predictors have moved, in one pass over the rows rather than one per
+// predictor.
+type drifter interface {
+	// drift returns D with |g_j(now) − g_j(then)| ≤ D·spread(j) for
+	// every predictor, where then is the previous call (the first call
+	// returns 0). It forms the working weights at the current fit, as
+	// gradient does.
+	drift() float64
+	// spread returns the factor of predictor j in drift's bound.
+	spread(j int) float64
+}
+
+// moved adds the engine's drift since the gradients were last formed to
+// every predictor's slack.
+func (w *walk) moved() {
+	d := w.drift.drift()
+	for j := range w.slack {
+		w.slack[j] += d * w.drift.spread(j)
+	}
+}
+
+// settle forms exactly the gradient of every predictor outside the set
+// whose bound |g_j| + slack_j does not fall clearly below thr(j), so that
+// comparing g_j with thr(j) decides as the exact gradient would. Others
+// keep a stale g_j whose comparison gives the same answer (|g_j| + slack_j
+// < thr(j)). Without a drifter every gradient is exact already.
+func (w *walk) settle(thr func(j int) float64) {
+	if w.drift == nil {
+		return
+	}
+	excl := w.e.excluded()
+	any := false
+	for j := range w.skip {
+		w.skip[j] = true
+		if w.inSet[j] || excl[j] || w.slack[j] == 0 {
+			continue
+		}
+		// A margin far above rounding in the sums keeps the bound safe.
+		bound := (math.Abs(w.g[j]) + w.slack[j]) * (1 + 1e-8)
+		if !(bound < thr(j)) {
+			w.skip[j], any = false, true
+		}
+	}
+	if !any {
+		return
+	}
+	w.e.gradient(w.g, w.skip)
+	for j, s := range w.skip {
+		if !s {
+			w.slack[j] = 0
+		}
+	}
+}
+
+// newWalk fits the unpenalised predictors and the intercept, and fixes the
+// penalty sequence. A walk whose first fit failed is done, with Status
+// IterationLimit.
+func newWalk(ctx context.Context, e engine, v []float64, r resolved, rows int) (*walk, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
@@ -341,18 +453,18 @@ func runPath(ctx context.Context, e engine, v []float64, r resolved, rows int) (
 			path.Excluded = append(path.Excluded, j)
 		}
 	}
-	inSet := make([]bool, p)
-	var set []int
+	w := &walk{e: e, v: v, r: r, path: path, inSet: make([]bool, p)}
 	for j := 0; j < p; j++ {
 		if v[j] == 0 && !excl[j] {
-			inSet[j] = true
-			set = append(set, j)
+			w.inSet[j] = true
+			w.set = append(w.set, j)
 		}
 	}
 	// Fit the unpenalised predictors (and intercept) alone.
-	if _, ok := e.solve(math.Inf(1), set); !ok {
+	if _, ok := e.solve(math.Inf(1), w.set); !ok {
 		path.Status = IterationLimit
-		return path, nil
+		w.done = true
+		return w, nil
 	}
 	g := make([]float64, p)
 	e.gradient(g, nil)
@@ -382,67 +494,94 @@ func runPath(ctx context.Context, e engine, v []float64, r resolved, rows int) (
 			pens[k] = lmax * math.Pow(r.floor, float64(k)/float64(r.num-1))
 		}
 	}
-	prev := math.Max(lmax, pens[0])
-	b := make([]float64, p)
-	for _, lam := range pens {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		// Sequential strong rule.
-		for j := 0; j < p; j++ {
-			if !inSet[j] && !excl[j] && math.Abs(g[j]) >= r.a*v[j]*(2*lam-prev) {
-				inSet[j] = true
-				set = append(set, j)
-			}
-		}
-		var sweeps int
-		for {
-			sw, ok := e.solve(lam, set)
-			sweeps += sw
-			if !ok {
-				path.Status = IterationLimit
-				return path, nil
-			}
-			e.gradient(g, inSet)
-			violated := false
-			for j := 0; j < p; j++ {
-				if !inSet[j] && !excl[j] && math.Abs(g[j]) > r.a*v[j]*lam {
-					inSet[j] = true
-					set = append(set, j)
-					violated = true
-				}
-			}
-			if !violated {
-				break
-			}
-		}
-		b0 := e.toOriginal(b)
-		var sp Sparse
-		for j, x := range b {
-			if x != 0 {
-				sp.Index = append(sp.Index, j)
-				sp.Value = append(sp.Value, x)
-			}
-		}
-		dev := e.deviance()
-		expl := 0.0
-		if path.NullDeviance > 0 {
-			expl = 1 - dev/path.NullDeviance
-		}
-		path.Penalties = append(path.Penalties, lam)
-		path.Intercept = append(path.Intercept, b0)
-		path.Coefficients = append(path.Coefficients, sp)
-		path.Deviance = append(path.Deviance, dev)
-		path.Explained = append(path.Explained, expl)
-		path.NonZero = append(path.NonZero, len(sp.Index))
-		path.Sweeps = append(path.Sweeps, sweeps)
-		if expl >= r.saturation {
-			path.Status = Saturated
-			return path, nil
-		}
-		prev = lam
+	w.pens, w.g, w.b = pens, g, make([]float64, p)
+	if dr, ok := e.(drifter); ok && dr.drift() == 0 {
+		w.drift, w.slack, w.skip = dr, make([]float64, p), make([]bool, p)
 	}
-	return path, nil
+	w.prev = math.Max(lmax, pens[0])
+	return w, nil
+}
+
+// next fits the next penalty of the sequence and reports whether it did;
+// false means the path has ended (its Status says how).
+func (w *walk) next(ctx context.Context) (bool, error) {
+	if w.done {
+		return false, nil
+	}
+	path, e, r, v, g := w.path, w.e, w.r, w.v, w.g
+	k := path.Len()
+	if k == len(w.pens) {
+		w.done = true
+		return false, nil
+	}
+	if err := ctx.Err(); err != nil {
+		return false, err
+	}
+	lam := w.pens[k]
+	p := len(v)
+	excl := e.excluded()
+	// Sequential strong rule.
+	w.settle(func(j int) float64 { return r.a * v[j] * (2*lam - w.prev) })
+	for j := 0; j < p; j++ {
+		if !w.inSet[j] && !excl[j] && math.Abs(g[j]) >= r.a*v[j]*(2*lam-w.prev) {
+			w.inSet[j] = true
+			w.set = append(w.set, j)
+		}
+	}
+	var sweeps int
+	for {
+		sw, ok := e.solve(lam, w.set)
+		sweeps += sw
+		if !ok {
+			path.Status = IterationLimit
+			w.done = true
+			return false, nil
+		}
+		if w.drift == nil {
+			e.gradient(g, w.inSet)
+		} else {
+			w.moved()
+			w.settle(func(j int) float64 { return r.a * v[j] * lam })
+		}
+		violated := false
+		for j := 0; j < p; j++ {
+			if !w.inSet[j] && !excl[j] && math.Abs(g[j]) > r.a*v[j]*lam {
+				w.inSet[j] = true
+				w.set = append(w.set, j)
+				violated = true
+			}
+		}
+		if !violated {
+			break
+		}
+	}
+	b := w.b
+	b0 := e.toOriginal(b)
+	var sp Sparse
+	for j, x := range b {
+		if x != 0 {
+			sp.Index = append(sp.Index, j)
+			sp.Value = append(sp.Value, x)
+		}
+	}
+	dev := e.deviance()
+	expl := 0.0
+	if path.NullDeviance > 0 {
+		expl = 1 - dev/path.NullDeviance
+	}
+	path.Penalties = append(path.Penalties, lam)
+	path.Intercept = append(path.Intercept, b0)
+	path.Coefficients = append(path.Coefficients, sp)
+	path.Deviance = append(path.Deviance, dev)
+	path.Explained = append(path.Explained, expl)
+	path.NonZero = append(path.NonZero, len(sp.Index))
+	path.Sweeps = append(path.Sweeps, sweeps)
+	if expl >= r.saturation {
+		path.Status = Saturated
+		w.done = true
+	}
+	w.prev = lam
+	return true, nil
 }
 
 // sweeper is what descend needs of an engine.

@@ -20,6 +20,9 @@ const (
 	// IterationLimit means a penalty did not converge within the sweep or
 	// reweighting limit; the path holds the penalties fitted before it.
 	IterationLimit
+	// Stopped means the caller ended the path (Stepper.Stop) before its
+	// last penalty.
+	Stopped
 )
 
 // String returns the status's name.
@@ -31,6 +34,8 @@ func (s Status) String() string {
 		return "saturated"
 	case IterationLimit:
 		return "iteration limit"
+	case Stopped:
+		return "stopped"
 	}
 	return fmt.Sprintf("Status(%d)", int(s))
 }

@@ -66,6 +66,16 @@ type residualEngine struct {
 	dev     float64 // deviance at the current eta, when devOK
 	devOK   bool
 	wantDev bool // working also computes the deviance, sharing its exponentials
+	// ex holds e^−|η| at the eta of the last binomial working weights,
+	// from which deviance forms the deviance when it is asked for (one
+	// logarithm per row, not paid at reweighting steps that end up not
+	// needing it); exOld holds it at etaOld during a descent.
+	ex, exOld []float64
+	binomial  bool
+	// qSnap holds q at the last drift call; spreads[j] is the weighted
+	// norm of predictor j's working column over its scale (see drift).
+	qSnap   []float64
+	spreads []float64
 }
 
 func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
@@ -76,27 +86,28 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	p := len(pred)
 	e := &residualEngine{
 		r: r, rows: rows, n: n, v: v,
-		cols:   make([][]float64, p),
-		y:      make([]float64, n),
-		omega:  make([]float64, n),
-		center: make([]float64, p),
-		scale:  make([]float64, p),
-		excl:   make([]bool, p),
-		beta:   make([]float64, p),
-		eta:    make([]float64, n),
-		h:      make([]float64, n),
-		q:      make([]float64, n),
-		xv:     make([]float64, p),
-		hxRaw:  make([]float64, p),
-		old:    make([]float64, p),
-		ones:   make([][]int32, p),
-		isBin:  make([]bool, p),
-		stale:  make([]bool, p),
-		flip:   make([]bool, p),
-		signs:  make([]int8, p),
-		gval:   make([]float64, p),
-		gstamp: make([]uint64, p),
-		stamp:  1,
+		cols:    make([][]float64, p),
+		y:       make([]float64, n),
+		omega:   make([]float64, n),
+		center:  make([]float64, p),
+		scale:   make([]float64, p),
+		excl:    make([]bool, p),
+		beta:    make([]float64, p),
+		eta:     make([]float64, n),
+		h:       make([]float64, n),
+		q:       make([]float64, n),
+		xv:      make([]float64, p),
+		hxRaw:   make([]float64, p),
+		old:     make([]float64, p),
+		ones:    make([][]int32, p),
+		isBin:   make([]bool, p),
+		stale:   make([]bool, p),
+		flip:    make([]bool, p),
+		signs:   make([]int8, p),
+		gval:    make([]float64, p),
+		gstamp:  make([]uint64, p),
+		stamp:   1,
+		spreads: make([]float64, p),
 	}
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
@@ -132,6 +143,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		if r.standard {
 			e.scale[j] = math.Sqrt(ss)
 		}
+		e.spreads[j] = math.Sqrt(ss) / e.scale[j]
 		e.isBin[j] = bin
 		if bin && r.intercept && 2*len(e.ones[j]) > n {
 			// Mostly ones: work with 1 − x, whose ones are fewer; the
@@ -156,6 +168,11 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	if !r.gaussian {
 		e.qw = make([]float64, n)
 		e.etaOld = make([]float64, n)
+	}
+	if _, ok := r.fam.(Binomial); ok {
+		e.binomial = true
+		e.ex = make([]float64, n)
+		e.exOld = make([]float64, n)
 	}
 	e.working()
 	if r.gaussian {
@@ -250,7 +267,7 @@ func (e *residualEngine) working() {
 		}
 		e.sumH = 1
 	} else if _, ok := e.r.fam.(Binomial); ok {
-		e.workingBinomial(e.wantDev && !e.devOK)
+		e.workingBinomial()
 	} else {
 		fam := e.r.fam
 		var dev float64
@@ -288,21 +305,17 @@ func (e *residualEngine) working() {
 // the deviance. With d = 1/(1+e^−|η|), the weight μ(1−μ) equals e^−|η|·d²
 // without cancellation; it is bounded below as Binomial.Working bounds μ.
 // The weighted residual h·(z−η) is ω·(y−μ) exactly.
-func (e *residualEngine) workingBinomial(wantDev bool) {
+func (e *residualEngine) workingBinomial() {
 	const hMin = ProbabilityBound * (1 - ProbabilityBound)
 	n := e.n
 	ys, etas, omega := e.y[:n], e.eta[:n], e.omega[:n]
-	h, q, qw := e.h[:n], e.q[:n], e.qw[:n]
-	// qw first holds e^−|η|; three simple loops run faster than one
-	// long one, whose chain of dependent operations stalls each row.
-	expNegAbs(qw, etas)
-	if wantDev {
-		// ½·deviance = log(1+e^η) − y·η = log1p(e^−|η|) + max(η, 0) − y·η.
-		e.dev, e.devOK = 2*halfDevianceSum(qw, etas, ys, omega)*e.total, true
-	}
+	h, q, qw, exs := e.h[:n], e.q[:n], e.qw[:n], e.ex[:n]
+	// Two simple loops run faster than one long one, whose chain of
+	// dependent operations stalls each row.
+	expNegAbs(exs, etas)
 	var sumH, sumQ float64
 	for t, y := range ys {
-		eta, ex := etas[t], qw[t]
+		eta, ex := etas[t], exs[t]
 		// neg is all ones for negative eta: the selection is branch-free,
 		// as the sign of eta is unpredictable.
 		neg := uint64(int64(math.Float64bits(eta)) >> 63)
@@ -521,6 +534,11 @@ func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 		copy(e.etaOld, e.eta)
 		oldB0 := e.b0
 		oldDev, oldDevOK := e.dev, e.devOK
+		if e.binomial && !oldDevOK {
+			// Keep the exponentials at etaOld: the deviance there is
+			// formed only if the step must be halved.
+			e.ex, e.exOld = e.exOld, e.ex
+		}
 		sw, ok, first := descend(e, lam, set, e.kktTol, true, e.r.maxSweeps-sweeps, e.active, e.signs)
 		sweeps += sw
 		step := e.updateEta()
@@ -541,6 +559,9 @@ func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 		// quadratic model is good; larger ones are halved until the
 		// penalised objective does not increase.
 		if step > 1 {
+			if e.binomial && !oldDevOK {
+				oldDev, oldDevOK = e.binomialDeviance(e.exOld, e.etaOld), true
+			}
 			fOld := e.objectiveAt(lam, set, e.etaOld, e.old, oldDev, oldDevOK)
 			fNew := e.objective(lam, set)
 			for halvings := 0; fNew > fOld+1e-13*math.Abs(fOld); halvings++ {
@@ -564,7 +585,7 @@ func (e *residualEngine) reweigh(lam float64, set []int) (int, bool) {
 				fNew = e.objective(lam, set)
 			}
 			if e.saturated() {
-				// A saturated fit has no finite optimum; runPath reports it.
+				// A saturated fit has no finite optimum; the path reports it.
 				return sweeps, true
 			}
 		}
@@ -704,6 +725,10 @@ func (e *residualEngine) deviance() float64 {
 	if e.devOK {
 		return e.dev
 	}
+	if e.binomial && e.fresh {
+		e.dev, e.devOK = e.binomialDeviance(e.ex, e.eta), true
+		return e.dev
+	}
 	for t, w := range e.omega {
 		d += w * e.unitDeviance(e.y[t], e.eta[t])
 	}
@@ -715,3 +740,37 @@ func (e *residualEngine) nullDeviance() float64 { return e.nullDev }
 func (e *residualEngine) excluded() []bool      { return e.excl }
 func (e *residualEngine) mode() Mode            { return ResidualMode }
 func (e *residualEngine) weight() float64       { return e.total }
+
+// binomialDeviance returns the binomial deviance at linear predictor eta
+// from ex = e^−|η|: ½·deviance = log1p(e^−|η|) + max(η, 0) − y·η.
+func (e *residualEngine) binomialDeviance(ex, eta []float64) float64 {
+	return 2 * halfDevianceSum(ex[:e.n], eta, e.y, e.omega) * e.total
+}
+
+// drift bounds the change of every gradient since its last call, in one
+// pass over the rows. At working weights formed at the fit and with α
+// folded into q, g_j = Σ_t (x_jt − m_j)·q_t / s_j, so by Cauchy–Schwarz
+// with the weights ω, |Δg_j| ≤ √(Σ ω (x_j − m_j)²)/s_j · √(Σ Δq_t²/ω_t):
+// spread(j) times the value returned. The first call returns 0.
+func (e *residualEngine) drift() float64 {
+	e.working()
+	e.flush()
+	n := e.n
+	q, om := e.q[:n], e.omega[:n]
+	if e.qSnap == nil {
+		e.qSnap = append([]float64(nil), q...)
+		return 0
+	}
+	qs := e.qSnap[:n]
+	var sum float64
+	for t, w := range om {
+		d := q[t] - qs[t]
+		sum += d * d / w
+	}
+	copy(qs, q)
+	// The factor and the term below cover rounding in the sums: the
+	// gradients use Σ q as tracked through the updates.
+	return math.Sqrt(sum)*(1+1e-8) + 1e-12
+}
+
+func (e *residualEngine) spread(j int) float64 { return e.spreads[j] }
