@@ -424,7 +424,7 @@ func (m *Model) rangeWarnings(p *plan, q Question) []string {
 				}
 			}
 			if outside > 0 {
-				out = append(out, fmt.Sprintf("%s %v leaves its observed range [%g, %g] in %d of %d rows: the answer extrapolates there", q.Cause, a, lo, hi, outside, len(m.rows)))
+				out = append(out, fmt.Sprintf("%s %v leaves its observed range [%.4g, %.4g] in %d of %d rows: the answer extrapolates there", q.Cause, a, lo, hi, outside, len(m.rows)))
 			}
 		}
 	}
