@@ -206,15 +206,8 @@ func lockstep(ctx context.Context, c *Settings, full *lasso.Stepper, folds []fol
 	stop := len(grid)
 	for done := 0; done < stop; {
 		end := min(done+stopBlock, stop)
-		for full.Path().Len() < end {
-			if more, err := full.Next(ctx); err != nil {
-				return 0, err
-			} else if !more {
-				break
-			}
-		}
-		if full.Path().Len() == 0 {
-			return 0, fmt.Errorf("%w: the full-data path ended at its first penalty (%v)", ErrNoFit, full.Path().Status)
+		if err := stepTo(ctx, full, end, -1); err != nil {
+			return 0, err
 		}
 		if full.Path().Len() < end {
 			stop = full.Path().Len() // the full path ended early
@@ -299,10 +292,12 @@ func startFold(ctx context.Context, d lasso.Data, sp split, grid []float64, c *S
 	return fw, nil
 }
 
-func (fw *foldWalk) advance(ctx context.Context, f, end int) error {
-	path := fw.stepper.Path()
-	for path.Len() < end {
-		more, err := fw.stepper.Next(ctx)
+// stepTo fits s's path on to end penalties, or until it ends; a path that
+// ended before its first penalty is ErrNoFit, naming the fold (or the
+// full-data path, for fold −1).
+func stepTo(ctx context.Context, s *lasso.Stepper, end, fold int) error {
+	for s.Path().Len() < end {
+		more, err := s.Next(ctx)
 		if err != nil {
 			return err
 		}
@@ -310,9 +305,21 @@ func (fw *foldWalk) advance(ctx context.Context, f, end int) error {
 			break
 		}
 	}
-	if path.Len() == 0 {
-		return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
+	if s.Path().Len() == 0 {
+		what := fmt.Sprintf("fold %d", fold)
+		if fold < 0 {
+			what = "the full-data path"
+		}
+		return fmt.Errorf("%w: %s ended at its first penalty (%v)", ErrNoFit, what, s.Path().Status)
 	}
+	return nil
+}
+
+func (fw *foldWalk) advance(ctx context.Context, f, end int) error {
+	if err := stepTo(ctx, fw.stepper, end, f); err != nil {
+		return err
+	}
+	path := fw.stepper.Path()
 	if fw.ho == nil {
 		fw.ho = gatherHeldOut(path, fw.cols, fw.held)
 	} else {

@@ -82,19 +82,10 @@ func (fm *foldMoments) scores() []float64    { return fm.vals }
 func (fm *foldMoments) path() *lasso.Stepper { return fm.stepper }
 
 func (fm *foldMoments) advance(ctx context.Context, f, end int) error {
+	if err := stepTo(ctx, fm.stepper, end, f); err != nil {
+		return err
+	}
 	path := fm.stepper.Path()
-	for path.Len() < end {
-		more, err := fm.stepper.Next(ctx)
-		if err != nil {
-			return err
-		}
-		if !more {
-			break
-		}
-	}
-	if path.Len() == 0 {
-		return fmt.Errorf("%w: fold %d ended at its first penalty (%v)", ErrNoFit, f, path.Status)
-	}
 	for k := len(fm.vals); k < end; k++ {
 		b0 := path.CoefficientsTo(fm.b, min(k, path.Len()-1))
 		fm.vals = append(fm.vals, heldOutMSE(fm.held, fm.response, fm.predictors, b0, fm.b))
