@@ -315,38 +315,8 @@ func (rd *dotReader) stmts(stmts []ast.Stmt, tier int, label string) error {
 // dotEdgeAttrs sets the attributes DOT writes exactly.
 func dotEdgeAttrs(e *Edge, attrs []*ast.Attr) error {
 	for _, a := range attrs {
-		v := dotUnquote(a.Val)
-		var dst *float64
-		switch a.Key {
-		case "coefficient":
-			dst = &e.Coefficient
-		case "lower":
-			dst = &e.Lower
-		case "upper":
-			dst = &e.Upper
-		case "standardized":
-			dst = &e.Standardized
-		case "frequency":
-			dst = &e.Frequency
-		case "sign":
-			x, err := strconv.Atoi(v)
-			if err != nil || x < -1 || x > 1 {
-				return fmt.Errorf("sign %q is not -1, 0 or 1", v)
-			}
-			e.Sign = x
-		case "required":
-			x, err := strconv.ParseBool(v)
-			if err != nil {
-				return fmt.Errorf("required %q is not true or false", v)
-			}
-			e.Required = x
-		}
-		if dst != nil {
-			x, err := strconv.ParseFloat(v, 64)
-			if err != nil {
-				return fmt.Errorf("%s %q is not a number", a.Key, v)
-			}
-			*dst = x
+		if _, err := e.setAttr(a.Key, dotUnquote(a.Val)); err != nil {
+			return fmt.Errorf("%s %v", a.Key, err)
 		}
 	}
 	return nil

@@ -117,39 +117,62 @@ func ReadEdgeCSV(r io.Reader) (*Graph, error) {
 
 // readEdgeColumns sets the attributes whose columns the record has.
 func readEdgeColumns(e *Edge, rec []string, col map[string]int) error {
-	cell := func(name string) (string, bool) {
+	for _, name := range edgeColumns {
 		i, ok := col[name]
 		if !ok || i >= len(rec) {
-			return "", false
+			continue
 		}
-		s := strings.TrimSpace(rec[i])
-		return s, s != ""
-	}
-	for _, f := range []struct {
-		name string
-		dst  *float64
-	}{{"coefficient", &e.Coefficient}, {"lower", &e.Lower}, {"upper", &e.Upper}, {"standardized", &e.Standardized}, {"frequency", &e.Frequency}} {
-		if s, ok := cell(f.name); ok {
-			x, err := strconv.ParseFloat(s, 64)
-			if err != nil {
-				return fmt.Errorf("column %q: %q is not a number", f.name, s)
-			}
-			*f.dst = x
+		if _, err := e.setAttr(name, rec[i]); err != nil {
+			return fmt.Errorf("column %q: %v", name, err)
 		}
-	}
-	if s, ok := cell("sign"); ok {
-		x, err := strconv.Atoi(s)
-		if err != nil || x < -1 || x > 1 {
-			return fmt.Errorf("column \"sign\": %q is not -1, 0 or 1", s)
-		}
-		e.Sign = x
-	}
-	if s, ok := cell("required"); ok {
-		x, err := strconv.ParseBool(s)
-		if err != nil {
-			return fmt.Errorf("column \"required\": %q is not true or false", s)
-		}
-		e.Required = x
 	}
 	return nil
+}
+
+// setAttr sets the attribute named key (a JSON key of Edge: coefficient,
+// lower, upper, standardized, frequency, sign, required) from its text; an
+// empty value leaves it unknown. It reports whether key names an attribute,
+// and an error naming the value when it is not of the attribute's type.
+func (e *Edge) setAttr(key, value string) (bool, error) {
+	v := strings.TrimSpace(value)
+	var dst *float64
+	switch key {
+	case "coefficient":
+		dst = &e.Coefficient
+	case "lower":
+		dst = &e.Lower
+	case "upper":
+		dst = &e.Upper
+	case "standardized":
+		dst = &e.Standardized
+	case "frequency":
+		dst = &e.Frequency
+	case "sign", "required":
+	default:
+		return false, nil
+	}
+	if v == "" {
+		return true, nil
+	}
+	switch key {
+	case "sign":
+		x, err := strconv.Atoi(v)
+		if err != nil || x < -1 || x > 1 {
+			return true, fmt.Errorf("%q is not -1, 0 or 1", value)
+		}
+		e.Sign = x
+	case "required":
+		x, err := strconv.ParseBool(v)
+		if err != nil {
+			return true, fmt.Errorf("%q is not true or false", value)
+		}
+		e.Required = x
+	default:
+		x, err := strconv.ParseFloat(v, 64)
+		if err != nil {
+			return true, fmt.Errorf("%q is not a number", value)
+		}
+		*dst = x
+	}
+	return true, nil
 }

@@ -235,33 +235,14 @@ func ReadGraphML(r io.Reader) (*Graph, error) {
 		}
 		ed := NewEdge(from, to)
 		v := values("edge", e.Data)
-		for _, f := range []struct {
-			key string
-			dst *float64
-		}{{"coefficient", &ed.Coefficient}, {"lower", &ed.Lower}, {"upper", &ed.Upper}, {"standardized", &ed.Standardized}, {"frequency", &ed.Frequency}} {
-			s, ok := v[f.key]
-			if !ok || strings.TrimSpace(s) == "" {
+		for _, key := range edgeColumns {
+			val, ok := v[key]
+			if !ok {
 				continue
 			}
-			x, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
-			if err != nil {
-				return nil, fmt.Errorf("%w: GraphML: edge %s (%s -> %s): %s %q is not a number", ErrFormat, at, from, to, f.key, s)
+			if _, err := ed.setAttr(key, val); err != nil {
+				return nil, fmt.Errorf("%w: GraphML: edge %s (%s -> %s): %s %v", ErrFormat, at, from, to, key, err)
 			}
-			*f.dst = x
-		}
-		if s, ok := v["sign"]; ok && strings.TrimSpace(s) != "" {
-			x, err := strconv.Atoi(strings.TrimSpace(s))
-			if err != nil || x < -1 || x > 1 {
-				return nil, fmt.Errorf("%w: GraphML: edge %s (%s -> %s): sign %q is not -1, 0 or 1", ErrFormat, at, from, to, s)
-			}
-			ed.Sign = x
-		}
-		if s, ok := v["required"]; ok && strings.TrimSpace(s) != "" {
-			x, err := strconv.ParseBool(strings.TrimSpace(s))
-			if err != nil {
-				return nil, fmt.Errorf("%w: GraphML: edge %s (%s -> %s): required %q is not true or false", ErrFormat, at, from, to, s)
-			}
-			ed.Required = x
 		}
 		edges = append(edges, ed)
 	}
