@@ -315,7 +315,7 @@ func (rd *dotReader) stmts(stmts []ast.Stmt, tier int, label string) error {
 // dotEdgeAttrs sets the attributes DOT writes exactly.
 func dotEdgeAttrs(e *Edge, attrs []*ast.Attr) error {
 	for _, a := range attrs {
-		if _, err := e.setAttr(a.Key, dotUnquote(a.Val)); err != nil {
+		if err := e.setAttr(a.Key, dotUnquote(a.Val)); err != nil {
 			return fmt.Errorf("%s %v", a.Key, err)
 		}
 	}

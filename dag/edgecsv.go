@@ -122,7 +122,7 @@ func readEdgeColumns(e *Edge, rec []string, col map[string]int) error {
 		if !ok || i >= len(rec) {
 			continue
 		}
-		if _, err := e.setAttr(name, rec[i]); err != nil {
+		if err := e.setAttr(name, rec[i]); err != nil {
 			return fmt.Errorf("column %q: %v", name, err)
 		}
 	}
@@ -131,9 +131,9 @@ func readEdgeColumns(e *Edge, rec []string, col map[string]int) error {
 
 // setAttr sets the attribute named key (a JSON key of Edge: coefficient,
 // lower, upper, standardized, frequency, sign, required) from its text; an
-// empty value leaves it unknown. It reports whether key names an attribute,
-// and an error naming the value when it is not of the attribute's type.
-func (e *Edge) setAttr(key, value string) (bool, error) {
+// empty value leaves it unknown, and other keys are passed over. It returns
+// an error naming the value when it is not of the attribute's type.
+func (e *Edge) setAttr(key, value string) error {
 	v := strings.TrimSpace(value)
 	var dst *float64
 	switch key {
@@ -149,30 +149,30 @@ func (e *Edge) setAttr(key, value string) (bool, error) {
 		dst = &e.Frequency
 	case "sign", "required":
 	default:
-		return false, nil
+		return nil
 	}
 	if v == "" {
-		return true, nil
+		return nil
 	}
 	switch key {
 	case "sign":
 		x, err := strconv.Atoi(v)
 		if err != nil || x < -1 || x > 1 {
-			return true, fmt.Errorf("%q is not -1, 0 or 1", value)
+			return fmt.Errorf("%q is not -1, 0 or 1", value)
 		}
 		e.Sign = x
 	case "required":
 		x, err := strconv.ParseBool(v)
 		if err != nil {
-			return true, fmt.Errorf("%q is not true or false", value)
+			return fmt.Errorf("%q is not true or false", value)
 		}
 		e.Required = x
 	default:
 		x, err := strconv.ParseFloat(v, 64)
 		if err != nil {
-			return true, fmt.Errorf("%q is not a number", value)
+			return fmt.Errorf("%q is not a number", value)
 		}
 		*dst = x
 	}
-	return true, nil
+	return nil
 }

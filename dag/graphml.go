@@ -240,7 +240,7 @@ func ReadGraphML(r io.Reader) (*Graph, error) {
 			if !ok {
 				continue
 			}
-			if _, err := ed.setAttr(key, val); err != nil {
+			if err := ed.setAttr(key, val); err != nil {
 				return nil, fmt.Errorf("%w: GraphML: edge %s (%s -> %s): %s %v", ErrFormat, at, from, to, key, err)
 			}
 		}
