@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"math"
 	"reflect"
 	"slices"
@@ -398,3 +399,38 @@ func TestStabilityBoundExplained(t *testing.T) {
 	}
 	t.Logf("bound %.2f, %d edges: %s", float64(st.ExpectedFalse), len(res.Edges), text)
 }
+
+// TestStabilityIgnoresSelection checks that stability selection runs its
+// half-sample lasso fits at the plain lasso's cross-validated penalty
+// whatever Config.Selection says: the adaptive lasso's second-stage
+// penalty is on the scale of its own penalty factors and means nothing to
+// a plain fit. Frequencies, penalties and edges must be those of a run
+// with the textbook lasso named.
+func TestStabilityIgnoresSelection(t *testing.T) {
+	d, o, _ := smallProblem(t, 3)
+	run := func(sel antecedent.Selection) *antecedent.Result {
+		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 4, Selection: sel, Stability: antecedent.Stability{Pairs: 10}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return res
+	}
+	want := run(antecedent.PenalisedLasso)
+	for _, sel := range []antecedent.Selection{antecedent.AdaptiveLasso, antecedent.RelaxedLasso} {
+		got := run(sel)
+		for i, n := range got.Nodes {
+			w := want.Nodes[i]
+			if !n.Fitted {
+				continue
+			}
+			if n.Selection != "stability" || !sameNumber(float64(n.Penalty), float64(w.Penalty)) {
+				t.Errorf("%v: %s selection %q at penalty %g, want stability at %g", sel, n.Name, n.Selection, float64(n.Penalty), float64(w.Penalty))
+			}
+		}
+		if fmt.Sprint(got.Edges) != fmt.Sprint(want.Edges) {
+			t.Errorf("%v: edges\n%v\nwant\n%v", sel, got.Edges, want.Edges)
+		}
+	}
+}
+
+func sameNumber(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }

@@ -164,13 +164,18 @@ func (r *run) fitNode(ctx context.Context, p *nodePlan) (nodeFit, error) {
 		return r.unfitted(p, err)
 	}
 	var chosen map[int]bool
-	switch r.cfg.Selection {
-	case AdaptiveLasso:
+	switch {
+	case r.cfg.Stability.Pairs > 0:
+		// Stability selection replaces the selection procedure: its
+		// half-sample fits are plain lasso fits at the penalty chosen on
+		// this plain path (a second adaptive stage's penalty lives on
+		// another scale), so no second stage or refit path is run.
+	case r.cfg.Selection == AdaptiveLasso:
 		if out, err = r.adaptive(ctx, p, out); err != nil {
 			return nodeFit{}, err
 		}
 		chosen = out.chosen()
-	case RelaxedLasso:
+	case r.cfg.Selection == RelaxedLasso:
 		if chosen, err = r.relaxed(ctx, p, out); err != nil {
 			return nodeFit{}, err
 		}
