@@ -122,13 +122,11 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 			best = i
 		}
 	}
-	pick := best
-	if r.cfg.CV.Rule == cv.OneStandardError { // the first (smallest) set within one SE
-		for i := range means {
-			if means[i] <= means[best]+ses[best] {
-				pick = i
-				break
-			}
+	pick := best // the first (smallest) set within the rule's standard errors
+	for i := range means {
+		if means[i] <= means[best]+r.cfg.CV.Rule.StandardErrors()*ses[best] {
+			pick = i
+			break
 		}
 	}
 	chosen := map[int]bool{}
@@ -144,8 +142,8 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 // unknown selection gets a sentence saying so.
 func (s Selection) Explanation(rule cv.Rule) string {
 	penalty := "when the penalty is set, by cross-validation, to the one that predicts rows left out of the fit best"
-	if rule == cv.OneStandardError {
-		penalty = "when the penalty is set, by cross-validation, to the strongest one that predicts rows left out of the fit within one standard error of the best"
+	if within := withinWords(rule); within != "" {
+		penalty = "when the penalty is set, by cross-validation, to the strongest one that predicts rows left out of the fit within " + within + " of the best"
 	}
 	switch s {
 	case AdaptiveLasso:
@@ -159,14 +157,26 @@ func (s Selection) Explanation(rule cv.Rule) string {
 			"Its parents are the earlier variables still in the model " + penalty + "."
 	case RelaxedLasso:
 		best := "the set whose refit predicts rows left out of the fit best (cross-validation)"
-		if rule == cv.OneStandardError {
-			best = "the smallest set whose refit predicts rows left out of the fit within one standard error of the best set (cross-validation)"
+		if within := withinWords(rule); within != "" {
+			best = "the smallest set whose refit predicts rows left out of the fit within " + within + " of the best set (cross-validation)"
 		}
 		return "Each variable is predicted from the variables measured before it by one lasso regression, " +
 			"and each set of earlier variables that enters as the penalty weakens is refitted without penalty. " +
 			"Its parents are the variables of " + best + "."
 	}
 	return fmt.Sprintf("%v is not a procedure this version knows.", s)
+}
+
+// withinWords says how far from the best rule reaches: "one standard
+// error", "half a standard error", or "" for the minimum rule.
+func withinWords(rule cv.Rule) string {
+	switch rule {
+	case cv.OneStandardError:
+		return "one standard error"
+	case cv.HalfStandardError:
+		return "half a standard error"
+	}
+	return ""
 }
 
 // SelectionExplanation returns the two sentences that say how the run

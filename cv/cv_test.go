@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"reflect"
+	"slices"
 	"strings"
 	"testing"
 
@@ -379,4 +380,47 @@ func foldSpread(v [][]float64, k int) float64 {
 		ss += (f[k] - m) * (f[k] - m)
 	}
 	return math.Sqrt(ss/float64(len(v)-1)) / math.Sqrt(float64(len(v)))
+}
+
+// TestRules checks each rule's choice on the diabetes data (Efron et al.
+// 2004, as above) against its definition worked from the returned curve:
+// the largest penalty whose mean is within m standard errors of the best,
+// m = 1, ½ and 0; and that the three nest (one-SE ≤ half-SE ≤ best).
+func TestRules(t *testing.T) {
+	tab, err := opendata.ReadCSV("diabetes.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := opendata.UnitNorm(tab.Columns[:10])
+	folds, err := cv.Random(len(x[0]), 10, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	chosen := map[cv.Rule]int{}
+	for _, tc := range []struct {
+		rule cv.Rule
+		name string
+		m    float64
+	}{{cv.OneStandardError, "one-se", 1}, {cv.HalfStandardError, "half-se", 0.5}, {cv.MinimumLoss, "minimum", 0}} {
+		if got, err := cv.ParseRule(tc.name); err != nil || got != tc.rule || tc.rule.String() != tc.name {
+			t.Errorf("ParseRule(%q) = %v, %v; String %q", tc.name, got, err, tc.rule.String())
+		}
+		r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: tab.Columns[10]}, folds, &cv.Settings{Rule: tc.rule, WholePath: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		bound := r.Curve[r.Best].Mean + tc.m*r.Curve[r.Best].SE
+		want := slices.IndexFunc(r.Curve, func(p cv.Point) bool { return p.Mean <= bound })
+		if r.Selected != want {
+			t.Errorf("%s: selected %d, want %d (bound %g)", tc.name, r.Selected, want, bound)
+		}
+		chosen[tc.rule] = r.Selected
+	}
+	if !(chosen[cv.OneStandardError] <= chosen[cv.HalfStandardError] && chosen[cv.HalfStandardError] <= chosen[cv.MinimumLoss]) ||
+		chosen[cv.OneStandardError] == chosen[cv.MinimumLoss] {
+		t.Errorf("choices %v do not nest, or the curve is too flat to tell the rules apart", chosen)
+	}
+	if _, err := cv.ParseRule("1se"); err == nil {
+		t.Error("ParseRule accepted 1se")
+	}
 }

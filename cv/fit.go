@@ -89,7 +89,7 @@ func resolveSettings(s *Settings) (Settings, lasso.Family, error) {
 		return c, fam, err
 	}
 	c.Measure = m
-	if c.Rule != MinimumLoss && c.Rule != OneStandardError {
+	if c.Rule != MinimumLoss && c.Rule != OneStandardError && c.Rule != HalfStandardError {
 		return c, fam, fmt.Errorf("cv: unknown rule %d", int(c.Rule))
 	}
 	if c.Workers < 0 {
@@ -485,8 +485,8 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	summarise(r.Curve, r.FoldValues, r.rows)
 	r.Best, r.OneSE = Choose(r.Curve, r.Measure.LargerIsBetter())
 	r.Selected = r.OneSE
-	if r.Rule == MinimumLoss {
-		r.Selected = r.Best
+	if r.Rule != OneStandardError {
+		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Rule.StandardErrors())
 	}
 	if r.Selected < 0 {
 		r.Best, r.OneSE, r.Selected = 0, 0, 0

@@ -21,7 +21,26 @@ const (
 	// MinimumLoss picks the penalty with the best mean held-out measure
 	// (the largest such penalty when several tie).
 	MinimumLoss
+	// HalfStandardError picks the largest penalty whose mean is within half
+	// a standard error of the best mean: between the two rules above. It is
+	// not a published rule; its multiple was chosen on simulated networks
+	// for the adaptive lasso's second stage, whose penalty factors already
+	// do much of the pruning the one-standard-error rule is there for
+	// (figures in bench/README.md, section Validity).
+	HalfStandardError
 )
+
+// StandardErrors returns how many standard errors above the best mean
+// rule r allows.
+func (r Rule) StandardErrors() float64 {
+	switch r {
+	case OneStandardError:
+		return 1
+	case HalfStandardError:
+		return 0.5
+	}
+	return 0
+}
 
 // String returns the rule's short name.
 func (r Rule) String() string {
@@ -30,6 +49,8 @@ func (r Rule) String() string {
 		return "minimum"
 	case OneStandardError:
 		return "one-se"
+	case HalfStandardError:
+		return "half-se"
 	}
 	return fmt.Sprintf("Rule(%d)", int(r))
 }
@@ -41,8 +62,10 @@ func ParseRule(s string) (Rule, error) {
 		return MinimumLoss, nil
 	case "one-se":
 		return OneStandardError, nil
+	case "half-se":
+		return HalfStandardError, nil
 	}
-	return 0, fmt.Errorf("cv: unknown rule %q (want minimum or one-se)", s)
+	return 0, fmt.Errorf("cv: unknown rule %q (want one-se, half-se or minimum)", s)
 }
 
 // Point is one penalty of a cross-validation curve.
@@ -64,6 +87,12 @@ type Point struct {
 // larger is true. NaN means are never chosen. It returns −1, −1 when every
 // mean is NaN.
 func Choose(curve []Point, larger bool) (best, oneSE int) {
+	return chooseWithin(curve, larger, 1)
+}
+
+// chooseWithin returns the index of the best point and that of the first
+// (largest) penalty whose mean is within m standard errors of the best.
+func chooseWithin(curve []Point, larger bool, m float64) (best, within int) {
 	best = -1
 	for k, p := range curve {
 		if math.IsNaN(p.Mean) {
@@ -76,9 +105,9 @@ func Choose(curve []Point, larger bool) (best, oneSE int) {
 	if best < 0 {
 		return -1, -1
 	}
-	bound := curve[best].Mean + curve[best].SE
+	bound := curve[best].Mean + m*curve[best].SE
 	if larger {
-		bound = curve[best].Mean - curve[best].SE
+		bound = curve[best].Mean - m*curve[best].SE
 	}
 	for k, p := range curve[:best+1] {
 		if (larger && p.Mean >= bound) || (!larger && p.Mean <= bound) {

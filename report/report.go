@@ -615,6 +615,9 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	case cv.OneStandardError:
 		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. One-SE rule: the strongest penalty within one standard error of the best (open circle), shown by the level line.",
 			measureName(n.Measure), better)
+	case cv.HalfStandardError:
+		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. Half-SE rule: the strongest penalty within half a standard error of the best (open circle), shown by the level line.",
+			measureName(n.Measure), better)
 	case cv.MinimumLoss:
 		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. Minimum rule: the penalty with the best held-out %s.",
 			measureName(n.Measure), better, measureName(n.Measure))
@@ -628,11 +631,11 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	key := c.place(x, y, "chosen: "+parentCount(len(n.Parents)), larger, true)
 	key.Class = "key"
 	if best >= 0 && best != chosen {
-		// The level the one-SE rule compared with: the best mean plus (or
-		// minus) its standard error.
-		lvl := hi[best]
+		// The level the rule compared with: the best mean plus (or minus)
+		// the rule's multiple of its standard error (hi and lo are ±1 SE).
+		lvl := ys[best] + n.Rule.StandardErrors()*(hi[best]-ys[best])
 		if larger {
-			lvl = lo[best]
+			lvl = ys[best] - n.Rule.StandardErrors()*(ys[best]-lo[best])
 		}
 		if finite(lvl) {
 			c.Rule = &segment{X1: sx.at(lx[best]), X2: x, Y: sy.at(lvl)}

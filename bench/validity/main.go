@@ -116,6 +116,7 @@ func procedures() []procedure {
 		{name: "minimum rule", cfg: rule(cv.MinimumLoss)},
 		{name: "one-SE rule", cfg: rule(cv.OneStandardError)},
 		{name: "adaptive one-SE", cfg: selection(antecedent.AdaptiveLasso, cv.OneStandardError)},
+		{name: "adaptive half-SE", cfg: selection(antecedent.AdaptiveLasso, cv.HalfStandardError)},
 		{name: "adaptive minimum", cfg: selection(antecedent.AdaptiveLasso, cv.MinimumLoss)},
 		{name: "relaxed one-SE", cfg: selection(antecedent.RelaxedLasso, cv.OneStandardError)},
 		{name: "relaxed minimum", cfg: selection(antecedent.RelaxedLasso, cv.MinimumLoss)},
@@ -140,6 +141,7 @@ func main() {
 	suiteName := flag.String("suite", "standard", "quick, standard or dense")
 	procNames := flag.String("procedures", "", "comma-separated procedure names to run (default all)")
 	networks := flag.Int("networks", 20, "networks per setting")
+	first := flag.Int("first", 1, "seed of the first network (networks take seeds first, first+1, …)")
 	workers := flag.Int("workers", runtime.GOMAXPROCS(0), "networks run at once")
 	only := flag.String("only", "", "run only settings whose description matches this regular expression")
 	flag.Parse()
@@ -158,7 +160,10 @@ func main() {
 	}
 	start := time.Now()
 	w := os.Stdout
-	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds 1…%d; %s, %d cores.\n\n", *suiteName, *networks, *networks, runtime.Version(), runtime.NumCPU())
+	if *first < 1 || *networks < 1 {
+		log.Fatalf("-first %d, -networks %d: both must be at least 1", *first, *networks)
+	}
+	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds %d…%d; %s, %d cores.\n\n", *suiteName, *networks, *first, *first+*networks-1, runtime.Version(), runtime.NumCPU())
 	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | s per network |")
 	fmt.Fprintln(w, "|---|---|---|---|---|---|---|")
 	calib := map[string][][2]int{} // kind → per threshold (true, total)
@@ -166,7 +171,7 @@ func main() {
 		if !match.MatchString(s.String()) {
 			continue
 		}
-		res := run(s, procs, *networks, *workers)
+		res := run(s, procs, *first, *networks, *workers)
 		for pi, p := range procs {
 			printRow(w, s, p.name, res[pi])
 		}
@@ -220,7 +225,7 @@ func main() {
 
 // run fits every procedure on the networks of setting s and returns the
 // outcomes by procedure and network.
-func run(s setting, procs []procedure, networks, workers int) [][]outcome {
+func run(s setting, procs []procedure, first, networks, workers int) [][]outcome {
 	out := make([][]outcome, len(procs))
 	for i := range out {
 		out[i] = make([]outcome, networks)
@@ -232,7 +237,7 @@ func run(s setting, procs []procedure, networks, workers int) [][]outcome {
 		go func() {
 			defer wg.Done()
 			for k := range jobs {
-				network(s, uint64(k+1), procs, out, k)
+				network(s, uint64(first+k), procs, out, k)
 			}
 		}()
 	}

@@ -32,10 +32,7 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 	fmt.Fprintln(w, "Scores are cross-validated, of the parents refitted without penalty (± one standard error).")
 	for _, n := range res.Nodes {
 		if n.Fitted {
-			rule := "one-standard-error rule"
-			if n.Rule == cv.MinimumLoss {
-				rule = "minimum-loss rule"
-			}
+			rule := map[cv.Rule]string{cv.OneStandardError: "one-standard-error rule", cv.HalfStandardError: "half-standard-error rule", cv.MinimumLoss: "minimum-loss rule"}[n.Rule]
 			fmt.Fprintf(w, "Each penalty chosen by %d-fold cross-validation (%s, %s); seed %d; %.1f s.\n",
 				res.Config.Folds, n.Measure, rule, res.Config.Seed, res.Timings.Total)
 			fmt.Fprintln(w, wrap("How parents were chosen: "+res.Config.SelectionExplanation(), 100))
