@@ -28,16 +28,21 @@ type Progress struct {
 }
 
 // Config configures Discover. The zero value, or a nil *Config, gives the
-// defaults written on each field. A Config is stored in the Result as it
-// was given: zero fields there mean the defaults of this version, and each
-// node records the penalties, measure and rule it was fitted with.
+// defaults written on each field. A Config is stored in the Result with
+// the defaults that hold for every node filled in (folds, the penalty
+// rule, the stability threshold); each node records the penalties, measure
+// and rule it was fitted with.
 type Config struct {
 	// Folds is the number of cross-validation folds; zero means 10.
 	Folds int `json:"folds"`
 	// CV configures each node's cross-validated path as package cv does:
 	// CV.Path the solver (mixing, penalty grid, tolerance; lasso's
-	// defaults), CV.Measure the held-out loss and CV.Rule the penalty
-	// choice (cv's defaults: deviance and the one-standard-error rule).
+	// defaults), CV.Measure the held-out loss (default deviance) and
+	// CV.Rule the penalty choice. A zero CV.Rule (cv.DefaultRule) means the
+	// selection's own: the half-standard-error rule for the adaptive
+	// lasso's second stage (chosen on the validity harness, see the
+	// README), the one-standard-error rule for the textbook and relaxed
+	// lasso and for stability selection.
 	// A measure for 0/1 responses (AUC, misclassification) applies to
 	// binary nodes; the others use deviance, and each node records the
 	// measure it used. Each node's family and penalty factors are set per node, so
@@ -99,6 +104,12 @@ func (c *Config) resolve() (Config, error) {
 	}
 	if r.Selection < AdaptiveLasso || r.Selection > RelaxedLasso {
 		return r, &ConfigError{"Selection", fmt.Sprint(int(r.Selection)), "unknown selection"}
+	}
+	if r.CV.Rule == cv.DefaultRule {
+		r.CV.Rule = cv.OneStandardError
+		if r.Selection == AdaptiveLasso && r.Stability.Pairs == 0 {
+			r.CV.Rule = cv.HalfStandardError
+		}
 	}
 	if r.Workers < 0 {
 		return r, &ConfigError{"Workers", fmt.Sprint(r.Workers), "must be 0 (one per CPU) or more"}

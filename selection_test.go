@@ -1,6 +1,7 @@
 package antecedent_test
 
 import (
+	"context"
 	"os"
 	"regexp"
 	"strings"
@@ -25,7 +26,9 @@ func TestSelectionExplanation(t *testing.T) {
 		want []string
 	}{
 		{antecedent.AdaptiveLasso, cv.OneStandardError, []string{"two rounds of lasso", "penalises weakly linked variables more", "within one standard error"}},
+		{antecedent.AdaptiveLasso, cv.HalfStandardError, []string{"two rounds of lasso", "penalises weakly linked variables more", "within half a standard error"}},
 		{antecedent.AdaptiveLasso, cv.MinimumLoss, []string{"two rounds of lasso", "predicts rows left out of the fit best"}},
+		{antecedent.PenalisedLasso, cv.HalfStandardError, []string{"one lasso regression", "within half a standard error"}},
 		{antecedent.PenalisedLasso, cv.OneStandardError, []string{"one lasso regression", "within one standard error"}},
 		{antecedent.PenalisedLasso, cv.MinimumLoss, []string{"one lasso regression", "predicts rows left out of the fit best"}},
 		{antecedent.RelaxedLasso, cv.OneStandardError, []string{"refitted without penalty", "smallest set"}},
@@ -54,7 +57,9 @@ func TestSelectionExplanation(t *testing.T) {
 		cfg  *antecedent.Config
 		want string
 	}{
-		{"nil config: the default", nil, antecedent.AdaptiveLasso.Explanation(cv.OneStandardError)},
+		{"nil config: the default", nil, antecedent.AdaptiveLasso.Explanation(cv.HalfStandardError)},
+		{"textbook named, its own rule", &antecedent.Config{Selection: antecedent.PenalisedLasso}, antecedent.PenalisedLasso.Explanation(cv.OneStandardError)},
+		{"adaptive, one-SE asked", &antecedent.Config{CV: cv.Settings{Rule: cv.OneStandardError}}, antecedent.AdaptiveLasso.Explanation(cv.OneStandardError)},
 		{"textbook, minimum rule", &antecedent.Config{Selection: antecedent.PenalisedLasso, CV: cv.Settings{Rule: cv.MinimumLoss}}, antecedent.PenalisedLasso.Explanation(cv.MinimumLoss)},
 		{"stability, default threshold", &antecedent.Config{Stability: antecedent.Stability{Pairs: 25}}, "on 25 pairs of complementary random halves"},
 		{"stability, threshold 0.9", &antecedent.Config{Stability: antecedent.Stability{Pairs: 25, Threshold: 0.9}}, "in at least 90% of the halves"},
@@ -80,5 +85,38 @@ func TestSelectionExplanationInREADME(t *testing.T) {
 	want := (*antecedent.Config)(nil).SelectionExplanation()
 	if !strings.Contains(readme, want) {
 		t.Errorf("README lacks the default procedure's explanation:\n%s", want)
+	}
+}
+
+// TestDefaultRule checks which rule each node records when Config.CV.Rule
+// is left at cv.DefaultRule: half-se under the adaptive lasso, one-se under
+// the textbook and relaxed lasso and under stability selection; a rule
+// asked for is kept. The stored Config says the rule resolved.
+func TestDefaultRule(t *testing.T) {
+	d, o, _ := smallProblem(t, 5)
+	for _, c := range []struct {
+		name string
+		cfg  antecedent.Config
+		want cv.Rule
+	}{
+		{"default", antecedent.Config{}, cv.HalfStandardError},
+		{"textbook", antecedent.Config{Selection: antecedent.PenalisedLasso}, cv.OneStandardError},
+		{"relaxed", antecedent.Config{Selection: antecedent.RelaxedLasso}, cv.OneStandardError},
+		{"stability", antecedent.Config{Stability: antecedent.Stability{Pairs: 3}}, cv.OneStandardError},
+		{"adaptive, one-se asked", antecedent.Config{CV: cv.Settings{Rule: cv.OneStandardError}}, cv.OneStandardError},
+		{"textbook, half-se asked", antecedent.Config{Selection: antecedent.PenalisedLasso, CV: cv.Settings{Rule: cv.HalfStandardError}}, cv.HalfStandardError},
+	} {
+		res, err := antecedent.DiscoverContext(context.Background(), d, o, &c.cfg)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if res.Config.CV.Rule != c.want {
+			t.Errorf("%s: the stored Config's rule %v, want %v", c.name, res.Config.CV.Rule, c.want)
+		}
+		for _, n := range res.Nodes {
+			if n.Fitted && n.Rule != c.want {
+				t.Errorf("%s: %s fitted under %v, want %v", c.name, n.Name, n.Rule, c.want)
+			}
+		}
 	}
 }

@@ -5,16 +5,20 @@
 // seeded and reproducible. Fit fits the penalty path on every row to fix
 // the grid, fits each fold's training rows on that grid, and scores each
 // fold's held-out rows at every penalty with the chosen Measure. For each
-// penalty the curve holds the mean over folds and its standard error
+// penalty the curve holds the mean over folds and its standard error: from
+// the held-out rows' own losses when the measure is a mean of per-row
+// losses (so stratified folds, which make fold means alike, do not shrink
+// it), otherwise from the spread of the fold values,
 //
-//	SE = sd(fold values, divisor K−1) / √K
+//	SE = sd(fold values, divisor K−1) / √K,
 //
-// and the penalty is chosen by the minimum mean (MinimumLoss) or by the
-// one-standard-error rule (OneStandardError): the largest penalty whose
-// mean is within one SE of the best (Breiman, Friedman, Olshen & Stone
-// 1984; Hastie, Tibshirani & Friedman, The Elements of Statistical
-// Learning, 2nd ed., sec. 7.10). For AUC larger is better and the rule is
-// mirrored.
+// and the penalty is chosen by the minimum mean (MinimumLoss), by the
+// one-standard-error rule (OneStandardError, the default): the largest
+// penalty whose mean is within one SE of the best (Breiman, Friedman,
+// Olshen & Stone 1984; Hastie, Tibshirani & Friedman, The Elements of
+// Statistical Learning, 2nd ed., sec. 7.10), or by the same with half an SE
+// (HalfStandardError, not a published rule; see its comment). For AUC
+// larger is better and the rules are mirrored.
 //
 // The full-data path and the folds' paths are fitted in step, in blocks
 // of ten penalties, and all stop once the mean held-out loss has risen at

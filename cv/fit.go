@@ -17,7 +17,7 @@ type Settings struct {
 	Path lasso.Settings `json:"path"`
 	// Measure is the held-out measure. Zero means Deviance.
 	Measure Measure `json:"measure"`
-	// Rule chooses the penalty. Zero means OneStandardError.
+	// Rule chooses the penalty. Zero (DefaultRule) means OneStandardError.
 	Rule Rule `json:"rule"`
 	// Workers bounds the folds fitted at once. Zero means GOMAXPROCS.
 	Workers int `json:"workers,omitempty"`
@@ -89,6 +89,9 @@ func resolveSettings(s *Settings) (Settings, lasso.Family, error) {
 		return c, fam, err
 	}
 	c.Measure = m
+	if c.Rule == DefaultRule {
+		c.Rule = OneStandardError
+	}
 	if c.Rule != MinimumLoss && c.Rule != OneStandardError && c.Rule != HalfStandardError {
 		return c, fam, fmt.Errorf("cv: unknown rule %d", int(c.Rule))
 	}

@@ -9,7 +9,10 @@ import (
 type Rule int
 
 const (
-	// OneStandardError, the default, picks the largest penalty whose mean is within
+	// DefaultRule, the zero value, leaves the choice to the caller's
+	// default: in this package OneStandardError.
+	DefaultRule Rule = iota
+	// OneStandardError picks the largest penalty whose mean is within
 	// one standard error of the best mean, the standard error taken at
 	// the best penalty (Breiman, Friedman, Olshen & Stone 1984, CART,
 	// sec. 3.4.3; Hastie, Tibshirani & Friedman, The Elements of
@@ -17,7 +20,7 @@ const (
 	// whose loss is statistically indistinguishable from the best, which
 	// suits structure discovery, where a spurious edge costs more than a
 	// slightly better prediction.
-	OneStandardError Rule = iota
+	OneStandardError
 	// MinimumLoss picks the penalty with the best mean held-out measure
 	// (the largest such penalty when several tie).
 	MinimumLoss
@@ -45,6 +48,8 @@ func (r Rule) StandardErrors() float64 {
 // String returns the rule's short name.
 func (r Rule) String() string {
 	switch r {
+	case DefaultRule:
+		return "default"
 	case MinimumLoss:
 		return "minimum"
 	case OneStandardError:
@@ -58,6 +63,8 @@ func (r Rule) String() string {
 // ParseRule returns the rule with the given short name.
 func ParseRule(s string) (Rule, error) {
 	switch s {
+	case "default":
+		return DefaultRule, nil
 	case "minimum":
 		return MinimumLoss, nil
 	case "one-se":
@@ -65,7 +72,7 @@ func ParseRule(s string) (Rule, error) {
 	case "half-se":
 		return HalfStandardError, nil
 	}
-	return 0, fmt.Errorf("cv: unknown rule %q (want one-se, half-se or minimum)", s)
+	return 0, fmt.Errorf("cv: unknown rule %q (want one-se, half-se, minimum or default)", s)
 }
 
 // Point is one penalty of a cross-validation curve.

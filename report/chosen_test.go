@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"github.com/antecedent-lab/antecedent"
+	"github.com/antecedent-lab/antecedent/cv"
 )
 
 // TestChosenBy checks the "chosen by" cell of each procedure: the
@@ -33,5 +34,36 @@ func TestChosenBy(t *testing.T) {
 		if got := chosenBy(n, antecedent.Effect{Parent: c.term, Term: c.term}, c.required, c.freq); got != c.want {
 			t.Errorf("%s: %q, want %q", c.name, got, c.want)
 		}
+	}
+}
+
+// TestRuleLevel checks the level line of the cross-validation chart: it
+// marks the bound the rule compared with, the best mean plus one standard
+// error under the one-SE rule and plus half of one under the half-SE rule
+// (common practice for the one-SE rule; cv.HalfStandardError for the
+// other), measured from the best point on the chart's own scale.
+func TestRuleLevel(t *testing.T) {
+	var curve []antecedent.CurvePoint
+	for k, m := range []float64{5, 4.2, 3.9, 3.7, 3.8} {
+		curve = append(curve, antecedent.CurvePoint{Penalty: antecedent.Number(math.Pow(2, -float64(k))), Mean: antecedent.Number(m), SE: 0.3})
+	}
+	level := func(r cv.Rule) (rule, best float64) {
+		n := &antecedent.Node{Curve: curve, Penalty: curve[1].Penalty, BestPenalty: curve[3].Penalty, Rule: r, Measure: cv.Deviance}
+		c := cvChart(n, "x")
+		if c == nil || c.Rule == nil {
+			t.Fatalf("%v: no level line", r)
+		}
+		for _, d := range c.Dots {
+			if d.Class == "lowest" {
+				return c.Rule.Y, d.Y
+			}
+		}
+		t.Fatalf("%v: no best point", r)
+		return 0, 0
+	}
+	one, best := level(cv.OneStandardError)
+	half, best2 := level(cv.HalfStandardError)
+	if best != best2 || math.Abs((half-best)/(one-best)-0.5) > 1e-9 {
+		t.Errorf("level lines at %g (one-SE) and %g (half-SE) from the best point at %g; want the second half as far", one, half, best)
 	}
 }

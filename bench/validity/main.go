@@ -51,7 +51,7 @@ func (s setting) String() string {
 type procedure struct {
 	name string
 	cfg  func(seed uint64) *antecedent.Config
-	keep func(e dag.Edge) bool // nil keeps every edge
+	keep func(e dag.Edge, res *antecedent.Result) bool // nil keeps every edge
 }
 
 func suite(name string) ([]setting, error) {
@@ -120,9 +120,27 @@ func procedures() []procedure {
 		{name: "adaptive minimum", cfg: selection(antecedent.AdaptiveLasso, cv.MinimumLoss)},
 		{name: "relaxed one-SE", cfg: selection(antecedent.RelaxedLasso, cv.OneStandardError)},
 		{name: "relaxed minimum", cfg: selection(antecedent.RelaxedLasso, cv.MinimumLoss)},
-		{name: "stability ≥ 0.75", cfg: stable, keep: func(e dag.Edge) bool { return e.Frequency >= 0.75 }},
-		{name: "stability ≥ 0.9", cfg: stable, keep: func(e dag.Edge) bool { return e.Frequency >= 0.9 }},
+		{name: "stability ≥ 0.75", cfg: stable, keep: func(e dag.Edge, _ *antecedent.Result) bool { return e.Frequency >= 0.75 }},
+		{name: "stability ≥ 0.9", cfg: stable, keep: func(e dag.Edge, _ *antecedent.Result) bool { return e.Frequency >= 0.9 }},
+		{name: "stability: bound ≤ 1 per node", cfg: stable, keep: perNodeBound},
 	}
+}
+
+// perNodeBound keeps a stability-selected edge when its frequency reaches
+// a threshold chosen from the data for its child: the smallest π for which
+// the Meinshausen & Bühlmann (2010, Theorem 1) bound q²/((2π−1)p) on the
+// child's expected false parents is at most 1 (q the mean number of
+// parents selected per half, p the candidates), kept within [0.6, 1]
+// (the range of thresholds the same paper recommends starts at 0.6; above
+// 1 the bound cannot be met and only edges selected in every half stay).
+func perNodeBound(e dag.Edge, res *antecedent.Result) bool {
+	for _, n := range res.Stability.Nodes {
+		if n.Name == e.To {
+			pi := 0.5 + n.Selected*n.Selected/(2*float64(n.Candidates))
+			return e.Frequency >= min(1, max(0.6, pi))
+		}
+	}
+	return false
 }
 
 // outcome is one procedure on one network.
@@ -304,7 +322,7 @@ func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) 
 				oc.freqs = append(oc.freqs, e.Frequency)
 				oc.truths = append(oc.truths, isTrue[[2]string{e.From, e.To}])
 			}
-			if p.keep == nil || p.keep(e) {
+			if p.keep == nil || p.keep(e, res) {
 				est = append(est, e)
 				if !isTrue[[2]string{e.From, e.To}] {
 					if kindOf[e.To] {
