@@ -84,7 +84,12 @@ func main() {
 	skipPy := flag.Bool("skip-python", false, "time antecedent only")
 	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
 	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of antecedent's fitting in the last case run to this file")
+	flag.StringVar(&selection, "selection", "lasso", "antecedent's parent selection: lasso (the textbook procedure the scikit-learn pipelines implement), adaptive (the library's default) or relaxed")
 	flag.Parse()
+	var sel antecedent.Selection
+	if err := sel.UnmarshalText([]byte(selection)); err != nil {
+		log.Fatal(err)
+	}
 	if *child {
 		if err := runChild(*dataPath, *n, *p, *orderPath, *outPath, *cpuProfile); err != nil {
 			log.Fatal(err)
@@ -98,7 +103,7 @@ func main() {
 		log.Fatal(err)
 	}
 	defer os.RemoveAll(dir)
-	fmt.Printf("machine: %d cores, %s; folds %d, one-standard-error rule, 100 penalties per node\n\n", runtime.NumCPU(), runtime.Version(), folds)
+	fmt.Printf("machine: %d cores, %s; folds %d, antecedent's selection %s under its own rule (the pipelines: lasso, one-standard-error rule), 100 penalties per node\n\n", runtime.NumCPU(), runtime.Version(), folds, sel)
 	fmt.Println("| case | n | p | edges | antecedent s (CPU s) | peak MiB (raw data MiB) | plain s | tuned s | vs plain | vs tuned | scikit-learn peak MiB (plain / tuned) | edge agreement |")
 	fmt.Println("|---|---|---|---|---|---|---|---|---|---|---|---|")
 	for _, c := range allCases() {
@@ -112,6 +117,9 @@ func main() {
 		fmt.Println(row)
 	}
 }
+
+// selection is antecedent's parent selection, by name (flag -selection).
+var selection string
 
 func selected(name, list string) bool {
 	for _, s := range strings.Split(list, ",") {
@@ -176,7 +184,11 @@ func runChild(path string, n, p int, orderPath, out, profile string) error {
 		}
 	}
 	start, cpu0 := time.Now(), cpuSeconds()
-	res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: 1, Folds: folds})
+	cfg := &antecedent.Config{Seed: 1, Folds: folds}
+	if err := cfg.Selection.UnmarshalText([]byte(selection)); err != nil {
+		return err
+	}
+	res, err := antecedent.DiscoverContext(context.Background(), d, o, cfg)
 	if err != nil {
 		return err
 	}
@@ -252,7 +264,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	os.WriteFile(orderPath, ob.Bytes(), 0o644)
 	resPath := filepath.Join(dir, c.name+".json")
 	self, _ := os.Executable()
-	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath, "-cpuprofile", profile).Output()
+	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath, "-cpuprofile", profile, "-selection", selection).Output()
 	if err != nil {
 		return "", fmt.Errorf("antecedent child: %v", err)
 	}
