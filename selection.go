@@ -142,7 +142,7 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 // unknown selection gets a sentence saying so.
 func (s Selection) Explanation(rule cv.Rule) string {
 	penalty := "when the penalty is set, by cross-validation, to the one that predicts rows left out of the fit best"
-	if within := withinWords(rule); within != "" {
+	if within := rule.Reach(); within != "" {
 		penalty = "when the penalty is set, by cross-validation, to the strongest one that predicts rows left out of the fit within " + within + " of the best"
 	}
 	switch s {
@@ -157,7 +157,7 @@ func (s Selection) Explanation(rule cv.Rule) string {
 			"Its parents are the earlier variables still in the model " + penalty + "."
 	case RelaxedLasso:
 		best := "the set whose refit predicts rows left out of the fit best (cross-validation)"
-		if within := withinWords(rule); within != "" {
+		if within := rule.Reach(); within != "" {
 			best = "the smallest set whose refit predicts rows left out of the fit within " + within + " of the best set (cross-validation)"
 		}
 		return "Each variable is predicted from the variables measured before it by one lasso regression, " +
@@ -165,18 +165,6 @@ func (s Selection) Explanation(rule cv.Rule) string {
 			"Its parents are the variables of " + best + "."
 	}
 	return fmt.Sprintf("%v is not a procedure this version knows.", s)
-}
-
-// withinWords says how far from the best rule reaches: "one standard
-// error", "half a standard error", or "" for the minimum rule.
-func withinWords(rule cv.Rule) string {
-	switch rule {
-	case cv.OneStandardError:
-		return "one standard error"
-	case cv.HalfStandardError:
-		return "half a standard error"
-	}
-	return ""
 }
 
 // SelectionExplanation returns the two sentences that say how the run

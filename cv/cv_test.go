@@ -405,6 +405,9 @@ func TestRules(t *testing.T) {
 		if got, err := cv.ParseRule(tc.name); err != nil || got != tc.rule || tc.rule.String() != tc.name {
 			t.Errorf("ParseRule(%q) = %v, %v; String %q", tc.name, got, err, tc.rule.String())
 		}
+		if !strings.HasSuffix(tc.rule.Title(), " rule") || (tc.rule.Reach() == "") != (tc.m == 0) {
+			t.Errorf("%s: title %q, reach %q", tc.name, tc.rule.Title(), tc.rule.Reach())
+		}
 		r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: tab.Columns[10]}, folds, &cv.Settings{Rule: tc.rule, WholePath: true})
 		if err != nil {
 			t.Fatal(err)

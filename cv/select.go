@@ -60,6 +60,33 @@ func (r Rule) String() string {
 	return fmt.Sprintf("Rule(%d)", int(r))
 }
 
+// Reach says in words how far from the best mean rule r reaches: "one
+// standard error", "half a standard error", or "" for the minimum (and an
+// unresolved DefaultRule). Texts for readers compose from it.
+func (r Rule) Reach() string {
+	switch r {
+	case OneStandardError:
+		return "one standard error"
+	case HalfStandardError:
+		return "half a standard error"
+	}
+	return ""
+}
+
+// Title is the rule's name in words: "one-standard-error rule",
+// "half-standard-error rule" or "minimum-loss rule".
+func (r Rule) Title() string {
+	switch r {
+	case OneStandardError:
+		return "one-standard-error rule"
+	case HalfStandardError:
+		return "half-standard-error rule"
+	case MinimumLoss:
+		return "minimum-loss rule"
+	}
+	return r.String()
+}
+
 // ParseRule returns the rule with the given short name.
 func ParseRule(s string) (Rule, error) {
 	switch s {

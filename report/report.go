@@ -611,18 +611,11 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	if larger {
 		better = "higher is better"
 	}
-	switch n.Rule {
-	case cv.OneStandardError:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. One-SE rule: the strongest penalty within one standard error of the best (open circle), shown by the level line.",
-			measureName(n.Measure), better)
-	case cv.HalfStandardError:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. Half-SE rule: the strongest penalty within half a standard error of the best (open circle), shown by the level line.",
-			measureName(n.Measure), better)
-	case cv.MinimumLoss:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss. Minimum rule: the penalty with the best held-out %s.",
-			measureName(n.Measure), better, measureName(n.Measure))
-	default:
-		c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss.", measureName(n.Measure), better)
+	c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss.", measureName(n.Measure), better)
+	if reach := n.Rule.Reach(); reach != "" {
+		c.Caption += fmt.Sprintf(" %s: the strongest penalty within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
+	} else if n.Rule == cv.MinimumLoss {
+		c.Caption += fmt.Sprintf(" Minimum-loss rule: the penalty with the best held-out %s.", measureName(n.Measure))
 	}
 	if chosen < 0 {
 		return c

@@ -7,7 +7,6 @@ import (
 	"strings"
 
 	"github.com/antecedent-lab/antecedent"
-	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
 )
 
@@ -32,9 +31,8 @@ func writeSummary(w io.Writer, res *antecedent.Result, truth *dag.Graph) {
 	fmt.Fprintln(w, "Scores are cross-validated, of the parents refitted without penalty (± one standard error).")
 	for _, n := range res.Nodes {
 		if n.Fitted {
-			rule := map[cv.Rule]string{cv.OneStandardError: "one-standard-error rule", cv.HalfStandardError: "half-standard-error rule", cv.MinimumLoss: "minimum-loss rule"}[n.Rule]
 			fmt.Fprintf(w, "Each penalty chosen by %d-fold cross-validation (%s, %s); seed %d; %.1f s.\n",
-				res.Config.Folds, n.Measure, rule, res.Config.Seed, res.Timings.Total)
+				res.Config.Folds, n.Measure, n.Rule.Title(), res.Config.Seed, res.Timings.Total)
 			fmt.Fprintln(w, wrap("How parents were chosen: "+res.Config.SelectionExplanation(), 100))
 			fmt.Fprintln(w, "Effects: a continuous variable's in its own units, a binary variable's as odds ratios of its value coded 1;")
 			fmt.Fprintln(w, "per unit of a continuous parent, value coded 1 vs reference for a binary parent, each level vs reference for a categorical one.")
