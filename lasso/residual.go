@@ -668,6 +668,17 @@ func (e *residualEngine) objective(lam float64, set []int) float64 {
 	return f
 }
 
+// penalty returns λ Σ v_j (a|β_j| + (1−a)/2·β_j²) over set.
+func (e *residualEngine) penalty(lam float64, set []int, beta []float64) float64 {
+	var f float64
+	for _, j := range set {
+		l1, l2 := penaltyTerms(lam, e.r.a, e.v[j])
+		b := beta[j]
+		f += l1*math.Abs(b) + l2/2*b*b
+	}
+	return f
+}
+
 func (e *residualEngine) gradient(g []float64, skip []bool) {
 	// The path records the deviance after each penalty: form it in the
 	// same pass as the weights.
