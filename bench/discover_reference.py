@@ -18,9 +18,16 @@ one of two pipelines that do the same per-node work as antecedent:
          the fastest L1 logistic solver scikit-learn has), intercept_scaling
          large so the intercept is effectively unpenalised.
 
+Both apply the one-standard-error rule as antecedent does: for continuous
+nodes the standard error is the spread of the fold means, for binary nodes
+(stratified folds) it comes from every held-out row's own log loss.
+
 Prints JSON: seconds, peak resident memory (KiB), nodes run, and the
-selected parents of each node run. Run with Debian's /usr/bin/python3
-(scikit-learn 1.2.1, numpy 1.24).
+selected parents of each node run. A third argument names a CSV file of
+the same data to read instead (pandas), for the end-to-end comparison;
+load_seconds is then the CSV read. Run with Debian's /usr/bin/python3
+(scikit-learn 1.2.1, numpy 1.24, pandas 1.5.3: Debian's python3-sklearn
+and python3-pandas).
 """
 import json
 import resource
@@ -48,6 +55,29 @@ def one_se(mean, se, larger_better=False):
     return best
 
 
+def binary_curve(m, X, y, splits):
+    """Mean held-out log loss per C (the mean over folds of each fold's mean,
+    as scores_ holds it) and its standard error as antecedent forms it for
+    binary nodes: the standard deviation of every held-out row's own loss
+    (divisor n) over the square root of n - 1, so that stratified folds,
+    which make the fold means alike, do not shrink it."""
+    paths = m.coefs_paths_[1.0]  # folds x Cs x (features + intercept)
+    K, C = paths.shape[0], paths.shape[1]
+    fold_means = np.empty((K, C))
+    rows = []
+    for f, (_, te) in enumerate(splits):
+        eta = X[te] @ paths[f, :, :-1].T + paths[f, :, -1]  # rows x Cs
+        p = np.clip(1 / (1 + np.exp(-eta)), 1e-15, 1 - 1e-15)
+        yt = y[te][:, None]
+        loss = -(yt * np.log(p) + (1 - yt) * np.log(1 - p))
+        fold_means[f] = loss.mean(axis=0)
+        rows.append(loss)
+    if not np.allclose(fold_means, -m.scores_[1.0], rtol=1e-6, atol=1e-9):
+        sys.exit("held-out losses recomputed from coefs_paths_ do not match scores_")
+    rows = np.vstack(rows)
+    return fold_means.mean(axis=0), rows.std(axis=0) / np.sqrt(len(rows) - 1)
+
+
 def standardise(X):
     m = X.mean(axis=0)
     s = X.std(axis=0)
@@ -66,8 +96,7 @@ def plain_node(data, node, folds, tol, jobs):
         cs = 1 / (ntr * grid)
         m = LogisticRegressionCV(Cs=cs, cv=splits, penalty="l1", solver="saga", tol=tol, max_iter=1000,
                                  scoring="neg_log_loss", n_jobs=jobs, refit=False).fit(X, y)
-        sc = m.scores_[1.0]  # folds x Cs, larger is better
-        k = one_se(sc.mean(axis=0), sc.std(axis=0, ddof=1) / np.sqrt(K), larger_better=True)
+        k = one_se(*binary_curve(m, X, y, splits))
         # The full-data refit has n rows, so its C is 1/(n·λ).
         fit = LogisticRegression(penalty="l1", solver="saga", C=1 / (len(y) * grid[k]), tol=tol, max_iter=1000).fit(X, y)
         coef = fit.coef_[0]
@@ -145,8 +174,7 @@ def tuned_binary(data, node, folds, tol, jobs):
     cs = 1 / (ntr * grid)
     m = LogisticRegressionCV(Cs=cs, cv=splits, penalty="l1", solver="liblinear", intercept_scaling=100, tol=tol,
                              scoring="neg_log_loss", n_jobs=jobs, refit=False).fit(X, y)
-    sc = m.scores_[1.0]
-    k = one_se(sc.mean(axis=0), sc.std(axis=0, ddof=1) / np.sqrt(K), larger_better=True)
+    k = one_se(*binary_curve(m, X, y, splits))
     fit = LogisticRegression(penalty="l1", solver="liblinear", intercept_scaling=100, C=1 / (len(y) * grid[k]),
                              tol=tol).fit(X, y)
     return [node["candidates"][j] for j in np.nonzero(fit.coef_[0])[0]]
@@ -165,7 +193,15 @@ def main():
     pipeline = sys.argv[2]
     n, p = spec["n"], spec["p"]
     start = time.perf_counter()
-    data = np.fromfile(spec["data"], dtype="<f8").reshape(p, n).T.copy()
+    if len(sys.argv) > 3:
+        # End to end: the table read from its CSV file as a practitioner
+        # would, with pandas' C parser.
+        import pandas as pd
+        data = pd.read_csv(sys.argv[3], engine="c", dtype=np.float64).to_numpy()
+        if data.shape != (n, p):
+            sys.exit("%s: %s values, want %d x %d" % (sys.argv[3], data.shape, n, p))
+    else:
+        data = np.fromfile(spec["data"], dtype="<f8").reshape(p, n).T.copy()
     load = time.perf_counter() - start
     nodes = [nd for nd in spec["nodes"] if nd["run"]]
     folds_all = np.fromfile(spec["folds"], dtype="<i1").reshape(len(spec["nodes"]), n)

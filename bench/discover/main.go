@@ -84,6 +84,7 @@ func main() {
 	skipPy := flag.Bool("skip-python", false, "time antecedent only")
 	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
 	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of antecedent's fitting in the last case run to this file")
+	endToEnd := flag.Bool("end-to-end", false, "also time the whole command on the data as a CSV file: antecedent discover against each pipeline reading the CSV with pandas")
 	flag.StringVar(&selection, "selection", "lasso", "antecedent's parent selection: lasso (the textbook procedure the scikit-learn pipelines implement), adaptive (the library's default) or relaxed")
 	flag.Parse()
 	var sel antecedent.Selection
@@ -104,17 +105,41 @@ func main() {
 	}
 	defer os.RemoveAll(dir)
 	fmt.Printf("machine: %d cores, %s; folds %d, antecedent's selection %s under its own rule (the pipelines: lasso, one-standard-error rule), 100 penalties per node\n\n", runtime.NumCPU(), runtime.Version(), folds, sel)
+	var cli string
+	if *endToEnd {
+		cli = filepath.Join(dir, "antecedent")
+		build := exec.Command("go", "build", "-o", cli, "./cmd/antecedent")
+		build.Dir = filepath.Join(filepath.Dir(file), "..", "..")
+		build.Stderr = os.Stderr
+		if err := build.Run(); err != nil {
+			log.Fatalf("building the command: %v", err)
+		}
+	}
 	fmt.Println("| case | n | p | edges | antecedent s (CPU s) | peak MiB (raw data MiB) | plain s | tuned s | vs plain | vs tuned | scikit-learn peak MiB (plain / tuned) | edge agreement |")
 	fmt.Println("|---|---|---|---|---|---|---|---|---|---|---|---|")
+	var e2e []string
 	for _, c := range allCases() {
 		if !selected(c.name, *only) {
 			continue
 		}
-		row, err := runCase(c, dir, script, *python, *pyNodes, *skipPy, *cpuProfile)
+		row, whole, err := runCase(c, dir, script, *python, *pyNodes, *skipPy, *cpuProfile, cli)
 		if err != nil {
 			log.Fatalf("%s: %v", c.name, err)
 		}
 		fmt.Println(row)
+		if whole != "" {
+			e2e = append(e2e, whole)
+		}
+	}
+	if len(e2e) > 0 {
+		fmt.Println()
+		fmt.Println("End to end: the command `antecedent discover --data case.csv --order case.order --json out.json --quiet` against each pipeline's whole process (interpreter start, imports, `pandas.read_csv`, the fit, scaled up from the sampled nodes as above).")
+		fmt.Println()
+		fmt.Println("| case | CSV MB | command s (CPU s) | fit alone s | plain: read s, whole s | tuned: read s, whole s | vs plain | vs tuned | command's edges |")
+		fmt.Println("|---|---|---|---|---|---|---|---|---|")
+		for _, r := range e2e {
+			fmt.Println(r)
+		}
 	}
 }
 
@@ -234,27 +259,29 @@ func peakKiB() int64 {
 	return -1
 }
 
-func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, profile string) (string, error) {
+// runCase times case c and returns its row of the fitting table and, when
+// cli names the built command, its row of the end-to-end table.
+func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, profile, cli string) (string, string, error) {
 	if pyNodes < 0 {
 		pyNodes = c.pyNodes
 	}
 	skipPy = skipPy || pyNodes < 0
 	m, o, err := simulate.Random(simulate.RandomSettings{Variables: c.p, Tiers: 5, BinaryShare: c.binary}, uint64(c.n+c.p))
 	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	s, err := m.Sample(c.n, 7)
 	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	dataPath := filepath.Join(dir, c.name+".f64")
 	f, err := os.Create(dataPath)
 	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	for _, col := range s.Columns {
 		if err := binary.Write(f, binary.LittleEndian, col); err != nil {
-			return "", err
+			return "", "", err
 		}
 	}
 	f.Close()
@@ -266,64 +293,69 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	self, _ := os.Executable()
 	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath, "-cpuprofile", profile, "-selection", selection).Output()
 	if err != nil {
-		return "", fmt.Errorf("antecedent child: %v", err)
+		return "", "", fmt.Errorf("antecedent child: %v", err)
 	}
 	var ours childReport
 	if err := json.Unmarshal(out, &ours); err != nil {
-		return "", err
+		return "", "", err
 	}
 	rf, err := os.Open(resPath)
 	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	res, err := antecedent.ReadResult(rf)
 	rf.Close()
 	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	// The original data are freed by the child; s is only needed for fold ids.
 	raw := float64(c.n*c.p*8) / (1 << 20)
 	row := fmt.Sprintf("| %s | %d | %d | %d | %.2f (%.1f) | %.0f (%.0f) |", c.name, c.n, c.p, len(res.Edges), ours.Seconds, ours.CPU, float64(ours.PeakKiB)/1024, raw)
+	var whole *command
+	if cli != "" {
+		if whole, err = runCommand(cli, dir, c, s, o, res); err != nil {
+			return "", "", err
+		}
+	}
 	if skipPy {
-		return row + " – | – | – | – | – | – |", nil
+		return row + " – | – | – | – | – | – |", whole.row(c, ours.Seconds, nil), nil
 	}
 	spec, fitted, run, err := writeSpec(dir, c, res, s, pyNodes)
 	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	var times [2]float64
 	var peaks [2]float64
 	var agree [2]string
+	var pyWhole []pyWholeRun
 	for k, pipeline := range []string{"plain", "tuned"} {
-		cmd := exec.Command(python, script, spec, pipeline)
-		cmd.Env = append(os.Environ(), "OMP_NUM_THREADS=2", "OPENBLAS_NUM_THREADS=2")
-		cmd.Stderr = os.Stderr
-		outb, err := cmd.Output()
+		py, err := runPython(python, script, spec, pipeline, "")
 		if err != nil {
-			return "", fmt.Errorf("python %s: %v", pipeline, err)
-		}
-		var py struct {
-			Seconds float64          `json:"seconds"`
-			Fixed   float64          `json:"fixed_seconds"`
-			PeakKiB float64          `json:"peak_kib"`
-			Nodes   int              `json:"nodes"`
-			Parents map[string][]int `json:"parents"`
-		}
-		if err := json.Unmarshal(outb, &py); err != nil {
-			return "", err
+			return "", "", err
 		}
 		// Shared work is counted once; per-node work scales with the
 		// number of nodes when only some were run.
-		times[k] = py.Fixed + (py.Seconds-py.Fixed)*float64(fitted)/float64(py.Nodes)
+		times[k] = py.scaled(fitted)
 		peaks[k] = py.PeakKiB / 1024
 		agree[k] = agreement(res, py.Parents)
+		if whole != nil {
+			t0 := time.Now()
+			pw, err := runPython(python, script, spec, pipeline, whole.csv)
+			if err != nil {
+				return "", "", err
+			}
+			// The process's wall time with the fit of the sampled nodes
+			// replaced by the fit of all of them.
+			wall := time.Since(t0).Seconds()
+			pyWhole = append(pyWhole, pyWholeRun{read: pw.Load, whole: wall - pw.Seconds + pw.scaled(fitted)})
+		}
 	}
 	est := ""
 	if run < fitted {
 		est = fmt.Sprintf(" (est. from %d of %d nodes)", run, fitted)
 	}
 	return row + fmt.Sprintf(" %.1f%s | %.1f%s | %.1f× | %.1f× | %.0f / %.0f | plain: %s; tuned: %s |",
-		times[0], est, times[1], est, times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), nil
+		times[0], est, times[1], est, times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), whole.row(c, ours.Seconds, pyWhole), nil
 }
 
 type specNode struct {

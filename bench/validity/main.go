@@ -30,6 +30,9 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/internal/refit"
+	"github.com/antecedent-lab/antecedent/lasso"
+	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
 	"github.com/antecedent-lab/antecedent/table"
 )
@@ -41,10 +44,24 @@ type setting struct {
 	parents  float64 // expected parents per node
 	lo, hi   float64 // absolute edge weights, drawn uniformly
 	strength string  // weak or strong
+	// scale multiplies the edge weights (zero means 1); match, when set,
+	// asks for the scale at which the true edges' median oracle |z|
+	// equals that of the networks of setting *match (see matchSignal).
+	scale float64
+	match *setting
 }
 
 func (s setting) String() string {
-	return fmt.Sprintf("%s n=%d p=%d %g parents %s", s.kind, s.n, s.p, s.parents, s.strength)
+	d := fmt.Sprintf("%s n=%d p=%d %g parents %s", s.kind, s.n, s.p, s.parents, s.strength)
+	switch {
+	case s.match != nil && s.scale == 0:
+		d += ", weights scaled to match " + s.match.kind
+	case s.match != nil:
+		d += fmt.Sprintf(", weights ×%.3f to match %s", s.scale, s.match.kind)
+	case s.scale != 0:
+		d += fmt.Sprintf(", weights ×%.3f", s.scale)
+	}
+	return d
 }
 
 // procedure is one way of choosing parents.
@@ -64,26 +81,39 @@ func suite(name string) ([]setting, error) {
 	switch name {
 	case "quick":
 		for _, k := range kinds {
-			out = append(out, setting{k, 1000, 20, 2, 0.4, 1, "strong"})
+			out = append(out, setting{kind: k, n: 1000, p: 20, parents: 2, lo: 0.4, hi: 1, strength: "strong"})
 		}
 	case "standard":
 		for _, k := range kinds {
 			for _, n := range []int{200, 1000, 5000, 20000} {
 				for _, sg := range signals {
-					out = append(out, setting{k, n, 30, 2, sg.lo, sg.hi, sg.name})
+					out = append(out, setting{kind: k, n: n, p: 30, parents: 2, lo: sg.lo, hi: sg.hi, strength: sg.name})
 				}
 			}
 		}
-		out = append(out, setting{"mixed", 5000, 50, 2, 0.4, 1, "strong"})
+		out = append(out, setting{kind: "mixed", n: 5000, p: 50, parents: 2, lo: 0.4, hi: 1, strength: "strong"})
+	case "matched":
+		// Binary networks beside continuous ones of the same signal: the
+		// same sizes, the continuous networks' weights scaled down until
+		// their true edges are as strong, by the oracle's |z|, as in the
+		// binary networks.
+		for _, n := range []int{200, 1000, 5000} {
+			for _, sg := range signals {
+				b := setting{kind: "binary", n: n, p: 30, parents: 2, lo: sg.lo, hi: sg.hi, strength: sg.name}
+				c := b
+				c.kind, c.match = "continuous", &b
+				out = append(out, b, c)
+			}
+		}
 	case "dense":
 		for _, k := range kinds {
 			for _, n := range []int{500, 2000, 20000} {
-				out = append(out, setting{k, n, 60, 3.5, 0.3, 1, "strong"})
+				out = append(out, setting{kind: k, n: n, p: 60, parents: 3.5, lo: 0.3, hi: 1, strength: "strong"})
 			}
 		}
-		out = append(out, setting{"continuous", 2000, 100, 3.5, 0.3, 1, "strong"})
+		out = append(out, setting{kind: "continuous", n: 2000, p: 100, parents: 3.5, lo: 0.3, hi: 1, strength: "strong"})
 	default:
-		return nil, fmt.Errorf("unknown suite %q (quick, standard or dense)", name)
+		return nil, fmt.Errorf("unknown suite %q (quick, standard, dense or matched)", name)
 	}
 	return out, nil
 }
@@ -152,11 +182,12 @@ type outcome struct {
 	seconds               float64
 	freqs                 []float64 // stability frequencies of reported edges
 	truths                []bool    // whether each of them is true
+	oracleZ               []float64 // the true edges' oracle |z| (see oracleZ)
 }
 
 func main() {
 	log.SetFlags(0)
-	suiteName := flag.String("suite", "standard", "quick, standard or dense")
+	suiteName := flag.String("suite", "standard", "quick, standard, dense or matched")
 	procNames := flag.String("procedures", "", "comma-separated procedure names to run (default all)")
 	networks := flag.Int("networks", 20, "networks per setting")
 	first := flag.Int("first", 1, "seed of the first network (networks take seeds first, first+1, …)")
@@ -182,12 +213,19 @@ func main() {
 		log.Fatalf("-first %d, -networks %d: both must be at least 1", *first, *networks)
 	}
 	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds %d…%d; %s, %d cores.\n\n", *suiteName, *networks, *first, *first+*networks-1, runtime.Version(), runtime.NumCPU())
-	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | s per network |")
-	fmt.Fprintln(w, "|---|---|---|---|---|---|---|")
+	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | median oracle \\|z\\| | s per network |")
+	fmt.Fprintln(w, "|---|---|---|---|---|---|---|---|")
 	calib := map[string][][2]int{} // kind → per threshold (true, total)
+	var notes []string
 	for _, s := range settings {
 		if !match.MatchString(s.String()) {
 			continue
+		}
+		if s.match != nil {
+			var target float64
+			s, target = matchSignal(s)
+			notes = append(notes, fmt.Sprintf("%s: weights in [%.4g, %.4g] give a median oracle |z| of %.2f on seeds %d…%d, where %s gives %.2f.",
+				s, s.lo*s.scale, s.hi*s.scale, medianOracleZ(s), calibrationFirst, calibrationFirst+calibrationSeeds-1, s.match, target))
 		}
 		res := run(s, procs, *first, *networks, *workers)
 		for pi, p := range procs {
@@ -213,6 +251,12 @@ func main() {
 				}
 			}
 			calib[s.kind] = c
+		}
+	}
+	if len(notes) > 0 {
+		fmt.Fprintln(w)
+		for _, n := range notes {
+			fmt.Fprintln(w, n)
 		}
 	}
 	fmt.Fprintf(w, "\nCalibration of stability frequencies (%d complementary pairs): of the edges selected with frequency ≥ f, the share that are true.\n\n", stabilityPairs)
@@ -267,16 +311,20 @@ func run(s setting, procs []procedure, first, networks, workers int) [][]outcome
 	return out
 }
 
-// network draws network seed of setting s and runs each procedure on it;
-// procedures sharing a configuration share one run.
-func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) {
+// draw simulates network seed of setting s: the model, its order and a
+// sample of s.n rows.
+func draw(s setting, seed uint64) (*simulate.Model, *order.Order, *simulate.Sample) {
 	binary := map[string]float64{"continuous": 0, "binary": 1, "mixed": 0.5}[s.kind]
+	scale := s.scale
+	if scale == 0 {
+		scale = 1
+	}
 	// Expected parents: each earlier node is a parent with probability q;
 	// a node has (p − p/T)/2 earlier nodes on average over T tiers.
 	tiers := 5
 	q := math.Min(1, s.parents/(float64(s.p)*(1-1/float64(tiers))/2))
 	m, o, err := simulate.Random(simulate.RandomSettings{Variables: s.p, Tiers: tiers, BinaryShare: binary, EdgeProbability: q,
-		MinWeight: s.lo, MaxWeight: s.hi}, seed)
+		MinWeight: s.lo * scale, MaxWeight: s.hi * scale}, seed)
 	if err != nil {
 		log.Fatal(err)
 	}
@@ -284,6 +332,98 @@ func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) 
 	if err != nil {
 		log.Fatal(err)
 	}
+	return m, o, sample
+}
+
+// oracleZ returns |coefficient / standard error| of every true edge in the
+// oracle's fit: each child regressed, without penalty, on its true parents
+// (least squares or logistic), on the sample. It measures how strong the
+// edges are in the data, whatever the kinds of the nodes.
+func oracleZ(m *simulate.Model, sample *simulate.Sample) []float64 {
+	col := map[string][]float64{}
+	for i, name := range sample.Names {
+		col[name] = sample.Columns[i]
+	}
+	var zs []float64
+	for _, nd := range m.Nodes {
+		if len(nd.Parents) == 0 {
+			continue
+		}
+		x := make([][]float64, len(nd.Parents))
+		for k, p := range nd.Parents {
+			x[k] = col[p]
+		}
+		var fam lasso.Family = lasso.Gaussian{}
+		if nd.Binary {
+			fam = lasso.Binomial{}
+		}
+		f, err := refit.Regress(context.Background(), fam, x, col[nd.Name], nil)
+		if err != nil {
+			log.Fatal(err)
+		}
+		for k := range nd.Parents {
+			z := math.Abs(f.Coef[k] / f.SE[k])
+			if math.IsNaN(z) {
+				z = 0 // not estimable: no evidence in the data
+			}
+			zs = append(zs, z)
+		}
+	}
+	return zs
+}
+
+// calibrationSeeds are the networks on which matchSignal compares signals;
+// they are not among the networks scored (seeds from 1).
+const calibrationSeeds, calibrationFirst = 10, 100001
+
+// medianOracleZ pools the true edges of the calibration networks of s.
+func medianOracleZ(s setting) float64 {
+	var zs []float64
+	for k := range calibrationSeeds {
+		m, _, sample := draw(s, uint64(calibrationFirst+k))
+		zs = append(zs, oracleZ(m, sample)...)
+	}
+	return median(zs)
+}
+
+func median(xs []float64) float64 {
+	if len(xs) == 0 {
+		return math.NaN()
+	}
+	xs = slices.Clone(xs)
+	slices.Sort(xs)
+	if len(xs)%2 == 1 {
+		return xs[len(xs)/2]
+	}
+	return (xs[len(xs)/2-1] + xs[len(xs)/2]) / 2
+}
+
+// matchSignal returns s with its edge weights scaled so that the median
+// oracle |z| of its true edges equals that of s.match, both on the
+// calibration networks: bisection on the log of the scale, in [1/256, 4],
+// to within 1% of the target (the median rises with the scale).
+func matchSignal(s setting) (setting, float64) {
+	target := medianOracleZ(*s.match)
+	lo, hi := math.Log(1.0/256), math.Log(4)
+	for range 40 {
+		s.scale = math.Exp((lo + hi) / 2)
+		z := medianOracleZ(s)
+		if math.Abs(z/target-1) < 0.01 {
+			break
+		}
+		if z < target {
+			lo = math.Log(s.scale)
+		} else {
+			hi = math.Log(s.scale)
+		}
+	}
+	return s, target
+}
+
+// network draws network seed of setting s and runs each procedure on it;
+// procedures sharing a configuration share one run.
+func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) {
+	m, o, sample := draw(s, seed)
 	d, err := table.NewDataset(sample.Names, sample.Columns)
 	if err != nil {
 		log.Fatal(err)
@@ -292,6 +432,7 @@ func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) 
 	if err != nil {
 		log.Fatal(err)
 	}
+	zs := oracleZ(m, sample)
 	truth := g.Edges()
 	isTrue := map[[2]string]bool{}
 	for _, e := range truth {
@@ -355,6 +496,7 @@ func network(s setting, seed uint64, procs []procedure, out [][]outcome, k int) 
 			oc.f1 = 0
 		}
 		oc.seconds = times[key]
+		oc.oracleZ = zs
 		out[pi][k] = oc
 	}
 }
@@ -404,7 +546,11 @@ func printRow(w io.Writer, s setting, name string, os []outcome) {
 		}
 		return fmt.Sprintf("%.3f", float64(a)/float64(b))
 	}
-	fmt.Fprintf(w, "| %s | %s | %s | %s | %s | %s / %s | %.2f |\n", s, name,
+	var zs []float64
+	for _, o := range os {
+		zs = append(zs, o.oracleZ...)
+	}
+	fmt.Fprintf(w, "| %s | %s | %s | %s | %s | %s / %s | %.1f | %.2f |\n", s, name,
 		col(func(o outcome) float64 { return o.precision }), col(func(o outcome) float64 { return o.recall }),
-		col(func(o outcome) float64 { return o.f1 }), ratio(fb, nb), ratio(fc, nc), secs/float64(len(os)))
+		col(func(o outcome) float64 { return o.f1 }), ratio(fb, nb), ratio(fc, nc), median(zs), secs/float64(len(os)))
 }
