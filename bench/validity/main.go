@@ -9,10 +9,20 @@
 //	go run ./bench/validity                 # the standard suite
 //	go run ./bench/validity -suite quick    # a small suite for a first look
 //	go run ./bench/validity -networks 5     # fewer networks per setting
+//	go run ./bench/validity -suite matched  # binary beside continuous networks of the same signal
+//	go run ./bench/validity -first 21 -networks 10 -raw more.jsonl   # more networks, kept
+//	go run ./bench/validity -merge runs/a.jsonl,more.jsonl           # one table from kept runs
+//
+// Each row also gives the true edges' median |z| in the oracle's fit (each
+// child regressed without penalty on its true parents), a measure of
+// signal that reads the same for binary and continuous children; the
+// matched suite scales the continuous networks' weights until that median
+// equals the binary networks' at the same size.
 package main
 
 import (
 	"context"
+	"encoding/json"
 	"flag"
 	"fmt"
 	"io"
@@ -30,6 +40,7 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/dag"
+	"github.com/antecedent-lab/antecedent/internal/jsonfloat"
 	"github.com/antecedent-lab/antecedent/internal/refit"
 	"github.com/antecedent-lab/antecedent/lasso"
 	"github.com/antecedent-lab/antecedent/order"
@@ -193,6 +204,8 @@ func main() {
 	first := flag.Int("first", 1, "seed of the first network (networks take seeds first, first+1, …)")
 	workers := flag.Int("workers", runtime.GOMAXPROCS(0), "networks run at once")
 	only := flag.String("only", "", "run only settings whose description matches this regular expression")
+	rawPath := flag.String("raw", "", "also append every outcome (one procedure on one network) to this file as a JSON line")
+	merge := flag.String("merge", "", "print the tables of the outcomes in these comma-separated -raw files instead of running (a repeated setting, procedure and seed counts once)")
 	flag.Parse()
 	settings, err := suite(*suiteName)
 	if err != nil {
@@ -209,13 +222,34 @@ func main() {
 	}
 	start := time.Now()
 	w := os.Stdout
+	if *merge != "" {
+		var recs []record
+		for _, path := range strings.Split(*merge, ",") {
+			r, err := readRecords(path)
+			if err != nil {
+				log.Fatal(err)
+			}
+			recs = append(recs, r...)
+		}
+		recs = dedupe(recs)
+		fmt.Fprintf(w, "Validity tables merged from %s: %d outcomes; %s, %d cores.\n\n", *merge, len(recs), runtime.Version(), runtime.NumCPU())
+		report(w, recs, nil)
+		return
+	}
 	if *first < 1 || *networks < 1 {
 		log.Fatalf("-first %d, -networks %d: both must be at least 1", *first, *networks)
 	}
+	var raw *json.Encoder
+	if *rawPath != "" {
+		f, err := os.OpenFile(*rawPath, os.O_CREATE|os.O_APPEND|os.O_WRONLY, 0o644)
+		if err != nil {
+			log.Fatal(err)
+		}
+		defer f.Close()
+		raw = json.NewEncoder(f)
+	}
 	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds %d…%d; %s, %d cores.\n\n", *suiteName, *networks, *first, *first+*networks-1, runtime.Version(), runtime.NumCPU())
-	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | median oracle \\|z\\| | s per network |")
-	fmt.Fprintln(w, "|---|---|---|---|---|---|---|---|")
-	calib := map[string][][2]int{} // kind → per threshold (true, total)
+	var recs []record
 	var notes []string
 	for _, s := range settings {
 		if !match.MatchString(s.String()) {
@@ -229,14 +263,149 @@ func main() {
 		}
 		res := run(s, procs, *first, *networks, *workers)
 		for pi, p := range procs {
-			printRow(w, s, p.name, res[pi])
+			for k, o := range res[pi] {
+				r := record{Setting: s.String(), Kind: s.kind, Procedure: p.name, Seed: *first + k, outcome: o}
+				recs = append(recs, r)
+				if raw != nil {
+					if err := raw.Encode(r); err != nil {
+						log.Fatal(err)
+					}
+				}
+			}
 		}
-		si := slices.IndexFunc(procs, func(p procedure) bool { return strings.HasPrefix(p.name, "stability") })
-		if si < 0 {
+	}
+	report(w, recs, notes)
+	fmt.Fprintf(w, "\nTotal time %.0f s.\n", time.Since(start).Seconds())
+}
+
+// record is one procedure on one network, as -raw writes it.
+type record struct {
+	Setting   string `json:"setting"`
+	Kind      string `json:"kind"`
+	Procedure string `json:"procedure"`
+	Seed      int    `json:"seed"`
+	outcome
+}
+
+// MarshalJSON and UnmarshalJSON carry the outcome's fields.
+func (r record) MarshalJSON() ([]byte, error) {
+	type plain struct {
+		Setting, Kind, Procedure string
+		Seed                     int
+		Precision, Recall, F1    jsonfloat.Float
+		FalseBinary              int
+		FalseContinuous          int
+		BinaryNodes              int
+		ContinuousNodes          int
+		Seconds                  jsonfloat.Float
+		Frequencies              []float64
+		Truths                   []bool
+		OracleZ                  []float64
+	}
+	o := r.outcome
+	f := func(x float64) jsonfloat.Float { return jsonfloat.Float(x) }
+	return json.Marshal(plain{r.Setting, r.Kind, r.Procedure, r.Seed, f(o.precision), f(o.recall), f(o.f1), o.falseBinary,
+		o.falseContinuous, o.binaryNodes, o.contNode, f(o.seconds), o.freqs, o.truths, o.oracleZ})
+}
+
+func (r *record) UnmarshalJSON(b []byte) error {
+	var p struct {
+		Setting, Kind, Procedure string
+		Seed                     int
+		Precision, Recall, F1    jsonfloat.Float
+		FalseBinary              int
+		FalseContinuous          int
+		BinaryNodes              int
+		ContinuousNodes          int
+		Seconds                  jsonfloat.Float
+		Frequencies              []float64
+		Truths                   []bool
+		OracleZ                  []float64
+	}
+	if err := json.Unmarshal(b, &p); err != nil {
+		return err
+	}
+	*r = record{Setting: p.Setting, Kind: p.Kind, Procedure: p.Procedure, Seed: p.Seed, outcome: outcome{
+		precision: float64(p.Precision), recall: float64(p.Recall), f1: float64(p.F1), falseBinary: p.FalseBinary,
+		falseContinuous: p.FalseContinuous, binaryNodes: p.BinaryNodes, contNode: p.ContinuousNodes,
+		seconds: float64(p.Seconds), freqs: p.Frequencies,
+		truths: p.Truths, oracleZ: p.OracleZ}}
+	return nil
+}
+
+// readRecords reads a file that -raw wrote.
+func readRecords(path string) ([]record, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	var out []record
+	dec := json.NewDecoder(f)
+	for line := 1; ; line++ {
+		var r record
+		if err := dec.Decode(&r); err == io.EOF {
+			return out, nil
+		} else if err != nil {
+			return nil, fmt.Errorf("%s: record %d: %w", path, line, err)
+		}
+		out = append(out, r)
+	}
+}
+
+// dedupe keeps the first record of each setting, procedure and seed, and
+// says how many it dropped.
+func dedupe(recs []record) []record {
+	seen := map[[3]string]bool{}
+	var out []record
+	for _, r := range recs {
+		k := [3]string{r.Setting, r.Procedure, fmt.Sprint(r.Seed)}
+		if seen[k] {
 			continue
 		}
-		for _, o := range res[si] {
-			c := calib[s.kind]
+		seen[k] = true
+		out = append(out, r)
+	}
+	if d := len(recs) - len(out); d > 0 {
+		log.Printf("%d repeated outcomes (same setting, procedure and seed) left out", d)
+	}
+	return out
+}
+
+// report prints the table of recs, grouped by setting and procedure in
+// the order they first appear, the notes, and the calibration of the
+// stability frequencies (from the first stability procedure of each
+// setting; they all share one run).
+func report(w io.Writer, recs []record, notes []string) {
+	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | median oracle \\|z\\| | s per network |")
+	fmt.Fprintln(w, "|---|---|---|---|---|---|---|---|")
+	type group struct{ setting, procedure string }
+	var order []group
+	by := map[group][]record{}
+	for _, r := range recs {
+		g := group{r.Setting, r.Procedure}
+		if by[g] == nil {
+			order = append(order, g)
+		}
+		by[g] = append(by[g], r)
+	}
+	calib := map[string][][2]int{} // kind → per threshold (true, total)
+	calibrated := map[string]bool{}
+	for _, g := range order {
+		rs := by[g]
+		sort.Slice(rs, func(a, b int) bool { return rs[a].Seed < rs[b].Seed })
+		os := make([]outcome, len(rs))
+		for i, r := range rs {
+			os[i] = r.outcome
+		}
+		printRow(w, fmt.Sprintf("%s (%d)", g.setting, len(rs)), g.procedure, os)
+		if !strings.HasPrefix(g.procedure, "stability") || calibrated[g.setting] {
+			continue
+		}
+		calibrated[g.setting] = true
+		kind := rs[0].Kind
+		for _, o := range os {
+			c := calib[kind]
 			if c == nil {
 				c = make([][2]int, len(calibrationThresholds))
 			}
@@ -250,7 +419,7 @@ func main() {
 					}
 				}
 			}
-			calib[s.kind] = c
+			calib[kind] = c
 		}
 	}
 	if len(notes) > 0 {
@@ -258,6 +427,9 @@ func main() {
 		for _, n := range notes {
 			fmt.Fprintln(w, n)
 		}
+	}
+	if len(calib) == 0 {
+		return
 	}
 	fmt.Fprintf(w, "\nCalibration of stability frequencies (%d complementary pairs): of the edges selected with frequency ≥ f, the share that are true.\n\n", stabilityPairs)
 	fmt.Fprint(w, "| networks |")
@@ -282,7 +454,6 @@ func main() {
 		}
 		fmt.Fprintln(w)
 	}
-	fmt.Fprintf(w, "\nTotal time %.0f s.\n", time.Since(start).Seconds())
 }
 
 // run fits every procedure on the networks of setting s and returns the
@@ -522,7 +693,7 @@ func meanSE(xs []float64) (float64, float64) {
 	return m, math.Sqrt(ss/float64(len(xs)-1)) / math.Sqrt(float64(len(xs)))
 }
 
-func printRow(w io.Writer, s setting, name string, os []outcome) {
+func printRow(w io.Writer, s string, name string, os []outcome) {
 	col := func(f func(o outcome) float64) string {
 		xs := make([]float64, len(os))
 		for i, o := range os {
