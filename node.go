@@ -159,7 +159,7 @@ func (r *run) names(vs []int) []string {
 // unpenalised refit of their effects and, when asked, same-tier links. It
 // reads shared state only and returns the finished node.
 func (r *run) fitNode(ctx context.Context, p *nodePlan) (nodeFit, error) {
-	out, err := r.crossValidate(ctx, p, p.cols, p.owner, p.rows, p.penaltyScale(p.owner))
+	out, err := r.crossValidate(ctx, p, p.cols, p.owner, p.rows, p.penaltyScale(p.owner), nil)
 	if err != nil {
 		return r.unfitted(p, err)
 	}
@@ -404,7 +404,7 @@ func (r *run) sameTier(ctx context.Context, p *nodePlan) ([]int, error) {
 	all := slices.Concat(p.cands, p.peers)
 	slices.Sort(all)
 	cols, owner := r.design(all)
-	out, err := r.crossValidate(ctx, p, cols, owner, r.rowsFor(p.v, all), p.penaltyScale(owner))
+	out, err := r.crossValidate(ctx, p, cols, owner, r.rowsFor(p.v, all), p.penaltyScale(owner), nil)
 	if errors.Is(err, lasso.ErrConstantResponse) {
 		return nil, nil
 	}

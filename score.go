@@ -47,9 +47,9 @@ func (e *tooFewRows) Error() string {
 // cols (of variables owner) over rows, with penalty factors scale. Gaussian nodes are solved from the
 // shared moments when there are some; other nodes get folds of their own,
 // stratified by the response for binomial nodes.
-func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows []int, scale []float64) (cvOut, error) {
+func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows []int, scale []float64, foldScales [][]float64) (cvOut, error) {
 	s := r.cfg.CV
-	s.Path, s.Workers = r.pathSettings(p, scale), 1
+	s.Path, s.Workers, s.FoldScales = r.pathSettings(p, scale), 1, foldScales
 	if p.role != binomial && (s.Measure == cv.AreaUnderCurve || s.Measure == cv.Misclassification) {
 		s.Measure = cv.Deviance // a measure for 0/1 responses applies to binary nodes only
 	}

@@ -19,7 +19,10 @@ const (
 	// that are non-zero at the first path's minimum-loss penalty, each
 	// penalised in inverse proportion to the size of its first-stage
 	// coefficient per standard deviation; the non-zero predictors at the
-	// penalty chosen by Config.CV.Rule are the parents. On the validity
+	// penalty chosen by Config.CV.Rule are the parents. The second
+	// stage's cross-validation learns each fold's weights from that
+	// fold's training rows alone, so that its curve judges the whole
+	// procedure on rows it has not seen. On the validity
 	// harness (bench/validity) it reports far fewer false parents than the
 	// plain lasso at the same rule (see the README's defaults section).
 	AdaptiveLasso Selection = iota
@@ -59,28 +62,71 @@ func (s *Selection) UnmarshalText(b []byte) error {
 }
 
 // adaptive runs the second stage of the adaptive lasso on node p after the
-// first cross-validated path out.
+// first cross-validated path out. The full-data second stage weighs each
+// predictor by its full-data first-stage coefficient; each fold's second
+// stage by the coefficient of that fold's own first-stage path at the same
+// penalty, so that the held-out rows take no part in the weights they are
+// used to judge (a predictor that fold's first stage left at zero stays
+// out of its second stage). Weights learnt on every row would favour, in
+// every fold, the predictors that fit the held-out rows by chance.
 func (r *run) adaptive(ctx context.Context, p *nodePlan, out cvOut) (cvOut, error) {
 	_, b := out.res.Full.Dense(out.res.Best)
+	k := len(out.res.FoldValues)
+	fold := make([][]float64, k)
+	for f := range fold {
+		fp := out.res.FoldPath(f)
+		_, fold[f] = fp.Dense(min(out.res.Best, fp.Len()-1))
+	}
+	factor := func(coef, sd float64) float64 {
+		if size := math.Abs(coef) * sd; size > 0 {
+			return 1 / size
+		}
+		return math.Inf(1)
+	}
 	var cols, owner []int
 	var scale []float64
+	foldScales := make([][]float64, k)
+	entered := false
 	for t, c := range out.cols {
 		required := slices.Contains(p.required, out.owner[t])
-		size := math.Abs(b[t]) * r.sd(c, out.rows)
-		if !required && !(size > 0) {
+		used := b[t] != 0
+		entered = entered || (used && !required)
+		for f := range fold {
+			used = used || fold[f][t] != 0
+		}
+		if !required && !used {
 			continue
 		}
 		cols, owner = append(cols, c), append(owner, out.owner[t])
 		if required {
 			scale = append(scale, 0)
-		} else {
-			scale = append(scale, 1/size)
+			for f := range foldScales {
+				foldScales[f] = append(foldScales[f], 0)
+			}
+			continue
+		}
+		sd := r.sd(c, out.rows)
+		scale = append(scale, factor(b[t], sd))
+		for f := range foldScales {
+			foldScales[f] = append(foldScales[f], factor(fold[f][t], sd))
 		}
 	}
-	if len(cols) == 0 {
-		return out, nil // nothing entered: the first stage's empty model stands
+	if !entered {
+		// Nothing entered the full-data first stage: the second stage
+		// holds the required predictors alone, or there is none and the
+		// first stage's empty model stands.
+		var req, reqOwner []int
+		for t, q := range owner {
+			if scale[t] == 0 {
+				req, reqOwner = append(req, cols[t]), append(reqOwner, q)
+			}
+		}
+		if len(req) == 0 {
+			return out, nil
+		}
+		return r.crossValidate(ctx, p, req, reqOwner, out.rows, make([]float64, len(req)), nil)
 	}
-	return r.crossValidate(ctx, p, cols, owner, out.rows, scale)
+	return r.crossValidate(ctx, p, cols, owner, out.rows, scale, foldScales)
 }
 
 // relaxed returns the variables of the relaxed lasso's choice for node p

@@ -26,6 +26,16 @@ type Settings struct {
 	// the mean held-out loss has risen at each of the last ten penalties
 	// (see Fit); FitMoments always fits the whole grid.
 	WholePath bool `json:"whole_path,omitempty"`
+	// FoldScales, when set, holds one penalty-factor vector per fold:
+	// fold f's path uses FoldScales[f] in place of Path.PenaltyScale
+	// (same length and meaning; +Inf keeps a predictor out of that fold's
+	// models). It serves procedures whose penalty factors are learnt from
+	// the data, such as the adaptive lasso's weights: learnt on each
+	// fold's training rows alone, they keep the held-out rows out of the
+	// whole procedure, as cross-validation requires (Hastie, Tibshirani &
+	// Friedman, The Elements of Statistical Learning, 2nd ed., sec.
+	// 7.10.2). The full-data path uses Path.PenaltyScale.
+	FoldScales [][]float64 `json:"-"`
 }
 
 // Validate returns the error Fit would return for these settings, as far
@@ -53,7 +63,8 @@ type Result struct {
 	// FoldValues holds the held-out measure of each fold at each penalty.
 	FoldValues [][]float64
 	// FoldPaths holds each fold's training path (nil from FitMoments and
-	// the Gaussian shortcut, which keep no per-row predictions).
+	// the Gaussian shortcut, which keep no per-row predictions; FoldPath
+	// gives their paths too).
 	FoldPaths []*lasso.Path
 	// Measure and Rule are those used (defaults resolved).
 	Measure Measure
@@ -62,10 +73,34 @@ type Result struct {
 	// one-standard-error rule; Selected the index chosen by Rule.
 	Best, OneSE, Selected int
 
+	// paths holds each fold's training path, whichever way it was fitted.
+	paths []*lasso.Path
+
 	// rows holds, per fold and penalty, sums of the held-out rows' own
 	// losses (nil when the measure is not a mean of per-row losses or the
 	// rows' predictions were not formed).
 	rows [][]rowSums
+}
+
+// FoldPath returns fold f's training path, fitted on the same grid as
+// Full (from rows or from moments).
+func (r *Result) FoldPath(f int) *lasso.Path { return r.paths[f] }
+
+// foldScale returns the penalty settings of fold f's path under c.
+func foldScale(c *Settings, f int) lasso.Settings {
+	ps := c.Path
+	if c.FoldScales != nil {
+		ps.PenaltyScale = c.FoldScales[f]
+	}
+	return ps
+}
+
+// checkFoldScales returns an error unless c's fold scales, if any, number k.
+func checkFoldScales(c *Settings, k int) error {
+	if c.FoldScales != nil && len(c.FoldScales) != k {
+		return fmt.Errorf("%w: %d fold penalty-factor vectors for %d folds", ErrFolds, len(c.FoldScales), k)
+	}
+	return nil
 }
 
 // Penalty returns the selected penalty.
@@ -147,6 +182,9 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		}
 		splits[f] = split{tr, he}
 	}
+	if err := checkFoldScales(&c, folds.K); err != nil {
+		return nil, err
+	}
 	if useMoments(c, fam, d) {
 		return fitViaMoments(ctx, d, splits2rows(splits), &c)
 	}
@@ -163,7 +201,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 	grid := full.Penalties()
 	folder := make([]foldPath, folds.K)
 	stop, err := lockstep(ctx, &c, full, folder, func(ctx context.Context, f int) (foldPath, error) {
-		return startFold(ctx, d, splits[f], grid, &c, fam)
+		return startFold(ctx, d, splits[f], grid, &c, fam, f)
 	})
 	if err != nil {
 		return nil, err
@@ -178,6 +216,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		}
 		r.FoldPaths[f] = fw.stepper.Path()
 	}
+	r.paths = r.FoldPaths
 	r.finish(r.Full.Penalties, r.Full.NonZero)
 	return r, nil
 }
@@ -269,8 +308,8 @@ type foldWalk struct {
 func (fw *foldWalk) scores() []float64    { return fw.vals }
 func (fw *foldWalk) path() *lasso.Stepper { return fw.stepper }
 
-func startFold(ctx context.Context, d lasso.Data, sp split, grid []float64, c *Settings, fam lasso.Family) (foldPath, error) {
-	ps := c.Path
+func startFold(ctx context.Context, d lasso.Data, sp split, grid []float64, c *Settings, fam lasso.Family, f int) (foldPath, error) {
+	ps := foldScale(c, f)
 	ps.Penalties = grid
 	fd := d
 	fd.Rows = sp.train
@@ -477,6 +516,9 @@ func fitViaMoments(ctx context.Context, d lasso.Data, held [][]int, s *Settings)
 		return nil, err
 	}
 	r.Full.Predictors = append(r.Full.Predictors[:0], pred...)
+	for _, fp := range r.paths {
+		fp.Predictors = append(fp.Predictors[:0], pred...)
+	}
 	return r, nil
 }
 

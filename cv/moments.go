@@ -37,6 +37,9 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 			return nil, fmt.Errorf("%w: fold %d has moments of %d variables, total %d", ErrLength, f, h.Vars, total.Vars)
 		}
 	}
+	if err := checkFoldScales(&c, len(held)); err != nil {
+		return nil, err
+	}
 	full, err := lasso.StartMoments(ctx, total, response, predictors, &c.Path)
 	if err != nil {
 		return nil, err
@@ -47,7 +50,7 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 		if !(total.Weight-held[f].Weight > 0) {
 			return nil, fmt.Errorf("%w: fold %d leaves no training rows", ErrFolds, f)
 		}
-		ps := c.Path
+		ps := foldScale(&c, f)
 		ps.Penalties = grid
 		st, err := lasso.StartMomentsExcluding(ctx, total, held[f], response, predictors, &ps)
 		if err != nil {
@@ -59,9 +62,11 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 	if err != nil {
 		return nil, err
 	}
-	r := &Result{Full: full.Path(), Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, len(held))}
+	r := &Result{Full: full.Path(), Measure: c.Measure, Rule: c.Rule, FoldValues: make([][]float64, len(held)),
+		paths: make([]*lasso.Path, len(held))}
 	for f, fp := range folder {
 		r.FoldValues[f] = fp.scores()[:stop]
+		r.paths[f] = fp.path().Path()
 	}
 	r.finish(r.Full.Penalties, r.Full.NonZero)
 	return r, nil

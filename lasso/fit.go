@@ -234,8 +234,8 @@ func penaltyScale(s *Settings, p int) ([]float64, error) {
 		return nil, fmt.Errorf("%w: %d penalty factors for %d predictors", ErrPenalty, len(s.PenaltyScale), p)
 	}
 	for j, x := range s.PenaltyScale {
-		if !(x >= 0) || math.IsInf(x, 0) {
-			return nil, fmt.Errorf("%w: penalty factor %d is %g, want finite and ≥ 0", ErrPenalty, j, x)
+		if !(x >= 0) {
+			return nil, fmt.Errorf("%w: penalty factor %d is %g, want ≥ 0 or +Inf", ErrPenalty, j, x)
 		}
 		v[j] = x
 	}

@@ -65,6 +65,13 @@ func newGramEngine(m momentSource, resp int, pred []int, v []float64, r resolved
 		return nil, ErrConstantResponse
 	}
 	for j, k := range pred {
+		if math.IsInf(v[j], 1) {
+			// An infinite penalty factor keeps the predictor out of
+			// every model, as a constant one is kept out.
+			e.excl[j] = true
+			e.scale[j] = 1
+			continue
+		}
 		vj := e.moment(k, k)
 		if vj <= 0 || (r.intercept && isConstant(vj, m.mean(k))) {
 			e.excl[j] = true

@@ -79,8 +79,8 @@ type Path struct {
 	// MaxPenalty is the smallest penalty at which every penalised
 	// coefficient is zero.
 	MaxPenalty float64
-	// Excluded lists positions of predictors that are constant over the
-	// fitted rows; they never enter a model.
+	// Excluded lists positions of predictors that never enter a model:
+	// constant over the fitted rows, or given an infinite penalty factor.
 	Excluded []int
 	// Status says how the path ended.
 	Status Status

@@ -131,6 +131,14 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		ybar += e.omega[t] * e.y[t]
 	}
 	for j, c := range e.cols {
+		if math.IsInf(v[j], 1) {
+			// An infinite penalty factor keeps the predictor out of
+			// every model, as a constant column is kept out.
+			e.excl[j] = true
+			e.scale[j] = 1
+			e.ones[j] = nil
+			continue
+		}
 		m, ss, bin := e.columnMoments(c, j, r.intercept)
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
 			e.excl[j] = true

@@ -46,8 +46,9 @@ type Settings struct {
 
 	// PenaltyScale holds one factor v_j ≥ 0 per predictor, in the order
 	// of the predictors. A zero factor leaves that predictor unpenalised,
-	// so it is in every model. Nil means every factor is 1. Factors are
-	// used as given (they are not rescaled).
+	// so it is in every model; an infinite one keeps it out of every
+	// model (the path is that of the other predictors). Nil means every
+	// factor is 1. Factors are used as given (they are not rescaled).
 	PenaltyScale []float64 `json:"penalty_scale,omitempty"`
 
 	// NoIntercept fits without an intercept (and so without centring the
