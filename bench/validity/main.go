@@ -64,6 +64,9 @@ type setting struct {
 
 func (s setting) String() string {
 	d := fmt.Sprintf("%s n=%d p=%d %g parents %s", s.kind, s.n, s.p, s.parents, s.strength)
+	if s.parents == 0 {
+		d = fmt.Sprintf("%s n=%d p=%d no edges", s.kind, s.n, s.p)
+	}
 	switch {
 	case s.match != nil && s.scale == 0:
 		d += ", weights scaled to match " + s.match.kind
@@ -114,6 +117,12 @@ func suite(name string) ([]setting, error) {
 				c := b
 				c.kind, c.match = "continuous", &b
 				out = append(out, b, c)
+			}
+		}
+		// No signal at all: every edge a selection reports is false.
+		for _, n := range []int{1000, 5000} {
+			for _, k := range []string{"binary", "continuous"} {
+				out = append(out, setting{kind: k, n: n, p: 30})
 			}
 		}
 	case "dense":
@@ -498,6 +507,13 @@ func draw(s setting, seed uint64) (*simulate.Model, *order.Order, *simulate.Samp
 		MinWeight: s.lo * scale, MaxWeight: s.hi * scale}, seed)
 	if err != nil {
 		log.Fatal(err)
+	}
+	if s.parents == 0 {
+		// A network without edges: the nodes as drawn, their parents
+		// dropped.
+		for i := range m.Nodes {
+			m.Nodes[i].Parents, m.Nodes[i].Weights = nil, nil
+		}
 	}
 	sample, err := m.Sample(s.n, seed+1000)
 	if err != nil {
