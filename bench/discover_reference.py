@@ -209,7 +209,10 @@ def main():
     parents = {}
     grams = None
     fixed = 0.0  # work shared by all nodes (the tuned pipeline's fold cross-products)
+    node_seconds = {}  # each node's own time, shared work excluded
     for nd in nodes:
+        t_node = time.perf_counter()
+        shared = fixed
         folds = folds_all[nd["slot"]].astype(int)
         if pipeline == "plain":
             parents[nd["index"]] = plain_node(data, nd, folds, spec["tol"], spec["jobs"])
@@ -221,12 +224,13 @@ def main():
                 grams = FoldGrams(data, folds)
                 fixed = time.perf_counter() - t0
             parents[nd["index"]] = tuned_gaussian(grams, nd, spec["tol"])
+        node_seconds[str(nd["index"])] = time.perf_counter() - t_node - (fixed - shared)
     seconds = time.perf_counter() - start
     # VmHWM: getrusage's maximum survives fork and exec, so it would count
     # the Go parent's memory; worker processes add their own peaks.
     rss = vm_hwm() + resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss
     json.dump({"seconds": seconds, "fixed_seconds": fixed, "load_seconds": load, "peak_kib": rss, "nodes": len(nodes),
-               "parents": {str(k): [int(x) for x in v] for k, v in parents.items()},
+               "parents": {str(k): [int(x) for x in v] for k, v in parents.items()}, "node_seconds": node_seconds,
                "tool": "scikit-learn %s, numpy %s" % (sklearn.__version__, np.__version__)}, sys.stdout)
 
 

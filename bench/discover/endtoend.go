@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -19,18 +20,48 @@ import (
 
 // pyReport is what bench/discover_reference.py prints.
 type pyReport struct {
-	Seconds float64          `json:"seconds"`
-	Fixed   float64          `json:"fixed_seconds"`
-	Load    float64          `json:"load_seconds"`
-	PeakKiB float64          `json:"peak_kib"`
-	Nodes   int              `json:"nodes"`
-	Parents map[string][]int `json:"parents"`
+	Seconds     float64            `json:"seconds"`
+	Fixed       float64            `json:"fixed_seconds"`
+	Load        float64            `json:"load_seconds"`
+	PeakKiB     float64            `json:"peak_kib"`
+	Nodes       int                `json:"nodes"`
+	Parents     map[string][]int   `json:"parents"`
+	NodeSeconds map[string]float64 `json:"node_seconds"`
 }
 
-// scaled returns the fit's time for all fitted nodes: work shared by all
-// nodes counted once, per-node work scaled up from the nodes run.
-func (r pyReport) scaled(fitted int) float64 {
-	return r.Fixed + (r.Seconds-r.Fixed)*float64(fitted)/float64(r.Nodes)
+// estimate returns the fit's time for every fitted node in spec and its
+// standard error: work shared by all nodes counted once, and the nodes'
+// own time by the ratio estimator of a total with the candidate count as
+// the auxiliary variable, from the nodes run, with its usual variance
+// N²(1 − n/N)/n · Σ(t − R·c)²/(n − 1) (Cochran, Sampling Techniques, 3rd
+// ed., 1977, ch. 6; from memory). The error is NaN from a single node,
+// zero when every node ran.
+func (r pyReport) estimate(spec []specNode) (float64, float64) {
+	var sumT, sumC, allC float64
+	var ts, cs []float64
+	for _, nd := range spec {
+		c := float64(len(nd.Candidates))
+		allC += c
+		if t, ok := r.NodeSeconds[fmt.Sprint(nd.Index)]; ok {
+			sumT, sumC = sumT+t, sumC+c
+			ts, cs = append(ts, t), append(cs, c)
+		}
+	}
+	n, all := float64(len(ts)), float64(len(spec))
+	if n == 0 || sumC == 0 {
+		return math.NaN(), math.NaN()
+	}
+	ratio := sumT / sumC
+	total := r.Fixed + ratio*allC
+	if n < 2 {
+		return total, math.NaN()
+	}
+	var ss float64
+	for i := range ts {
+		d := ts[i] - ratio*cs[i]
+		ss += d * d
+	}
+	return total, math.Sqrt(all * all * (1 - n/all) / n * ss / (n - 1))
 }
 
 // runPython runs one pipeline of the reference script on spec, reading

@@ -324,7 +324,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	if err != nil {
 		return "", "", err
 	}
-	var times [2]float64
+	var times, ses [2]float64
 	var peaks [2]float64
 	var agree [2]string
 	var pyWhole []pyWholeRun
@@ -335,7 +335,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 		}
 		// Shared work is counted once; per-node work scales with the
 		// number of nodes when only some were run.
-		times[k] = py.scaled(fitted)
+		times[k], ses[k] = py.estimate(lastSpec)
 		peaks[k] = py.PeakKiB / 1024
 		agree[k] = agreement(res, py.Parents)
 		if whole != nil {
@@ -347,15 +347,21 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 			// The process's wall time with the fit of the sampled nodes
 			// replaced by the fit of all of them.
 			wall := time.Since(t0).Seconds()
-			pyWhole = append(pyWhole, pyWholeRun{read: pw.Load, whole: wall - pw.Seconds + pw.scaled(fitted)})
+			all, _ := pw.estimate(lastSpec)
+			pyWhole = append(pyWhole, pyWholeRun{read: pw.Load, whole: wall - pw.Seconds + all})
 		}
 	}
-	est := ""
-	if run < fitted {
-		est = fmt.Sprintf(" (est. from %d of %d nodes)", run, fitted)
+	est := func(k int) string {
+		switch {
+		case run == fitted:
+			return ""
+		case math.IsNaN(ses[k]):
+			return fmt.Sprintf(" (est. from %d of %d nodes)", run, fitted)
+		}
+		return fmt.Sprintf(" ± %.1f (est. from %d of %d nodes)", ses[k], run, fitted)
 	}
 	return row + fmt.Sprintf(" %.1f%s | %.1f%s | %.1f× | %.1f× | %.0f / %.0f | plain: %s; tuned: %s |",
-		times[0], est, times[1], est, times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), whole.row(c, ours.Seconds, pyWhole), nil
+		times[0], est(0), times[1], est(1), times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), whole.row(c, ours.Seconds, pyWhole), nil
 }
 
 type specNode struct {
@@ -403,8 +409,16 @@ func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Samp
 	if pyNodes > 0 && pyNodes < len(nodes) {
 		run = pyNodes
 	}
+	// A sample stratified by candidate count (per-node time grows with
+	// it): the nodes in order of candidates, cut into run strata of equal
+	// size, and the middle node of each.
+	byCands := make([]int, len(nodes))
+	for k := range byCands {
+		byCands[k] = k
+	}
+	slices.SortStableFunc(byCands, func(a, b int) int { return len(nodes[a].Candidates) - len(nodes[b].Candidates) })
 	for k := range run {
-		nodes[k*len(nodes)/run].Run = true
+		nodes[byCands[(2*k+1)*len(nodes)/(2*run)]].Run = true
 	}
 	foldPath := filepath.Join(dir, c.name+".folds")
 	if err := os.WriteFile(foldPath, ids, 0o644); err != nil {
@@ -414,8 +428,13 @@ func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Samp
 		"nodes": nodes, "tol": 1e-4, "jobs": 2}
 	b, _ := json.Marshal(spec)
 	path := filepath.Join(dir, c.name+".spec.json")
+	lastSpec = nodes
 	return path, len(nodes), run, os.WriteFile(path, b, 0o644)
 }
+
+// lastSpec holds the nodes of the last spec written, for the estimates of
+// the reference's time.
+var lastSpec []specNode
 
 // agreement compares parent sets on the nodes scikit-learn ran.
 func agreement(res *antecedent.Result, parents map[string][]int) string {
