@@ -258,6 +258,7 @@ func main() {
 		raw = json.NewEncoder(f)
 	}
 	fmt.Fprintf(w, "Validity suite %q: %d networks per setting, seeds %d…%d; %s, %d cores.\n\n", *suiteName, *networks, *first, *first+*networks-1, runtime.Version(), runtime.NumCPU())
+	printHeader(w)
 	var recs []record
 	var notes []string
 	for _, s := range settings {
@@ -271,6 +272,7 @@ func main() {
 				s, s.lo*s.scale, s.hi*s.scale, medianOracleZ(s), calibrationFirst, calibrationFirst+calibrationSeeds-1, s.match, target))
 		}
 		res := run(s, procs, *first, *networks, *workers)
+		done := len(recs)
 		for pi, p := range procs {
 			for k, o := range res[pi] {
 				r := record{Setting: s.String(), Kind: s.kind, Procedure: p.name, Seed: *first + k, outcome: o}
@@ -282,8 +284,9 @@ func main() {
 				}
 			}
 		}
+		printRows(w, recs[done:])
 	}
-	report(w, recs, notes)
+	printTail(w, recs, notes)
 	fmt.Fprintf(w, "\nTotal time %.0f s.\n", time.Since(start).Seconds())
 }
 
@@ -382,38 +385,68 @@ func dedupe(recs []record) []record {
 }
 
 // report prints the table of recs, grouped by setting and procedure in
-// the order they first appear, the notes, and the calibration of the
-// stability frequencies (from the first stability procedure of each
-// setting; they all share one run).
+// the order they first appear, then the notes and the calibration (see
+// printTail).
 func report(w io.Writer, recs []record, notes []string) {
+	printHeader(w)
+	printRows(w, recs)
+	printTail(w, recs, notes)
+}
+
+func printHeader(w io.Writer) {
 	fmt.Fprintln(w, "| setting | procedure | precision | recall | F1 | false edges per binary / continuous child | median oracle \\|z\\| | s per network |")
 	fmt.Fprintln(w, "|---|---|---|---|---|---|---|---|")
-	type group struct{ setting, procedure string }
-	var order []group
-	by := map[group][]record{}
+}
+
+// groups returns recs by setting and procedure, in the order they first
+// appear, each sorted by seed.
+func groups(recs []record) [][]record {
+	type key struct{ setting, procedure string }
+	var order []key
+	by := map[key][]record{}
 	for _, r := range recs {
-		g := group{r.Setting, r.Procedure}
-		if by[g] == nil {
-			order = append(order, g)
+		k := key{r.Setting, r.Procedure}
+		if by[k] == nil {
+			order = append(order, k)
 		}
-		by[g] = append(by[g], r)
+		by[k] = append(by[k], r)
 	}
+	out := make([][]record, len(order))
+	for i, k := range order {
+		rs := by[k]
+		sort.Slice(rs, func(a, b int) bool { return rs[a].Seed < rs[b].Seed })
+		out[i] = rs
+	}
+	return out
+}
+
+func outcomes(rs []record) []outcome {
+	os := make([]outcome, len(rs))
+	for i, r := range rs {
+		os[i] = r.outcome
+	}
+	return os
+}
+
+func printRows(w io.Writer, recs []record) {
+	for _, rs := range groups(recs) {
+		printRow(w, fmt.Sprintf("%s (%d)", rs[0].Setting, len(rs)), rs[0].Procedure, outcomes(rs))
+	}
+}
+
+// printTail prints the notes and the calibration of the stability
+// frequencies in recs (from the first stability procedure of each
+// setting; they all share one run).
+func printTail(w io.Writer, recs []record, notes []string) {
 	calib := map[string][][2]int{} // kind → per threshold (true, total)
 	calibrated := map[string]bool{}
-	for _, g := range order {
-		rs := by[g]
-		sort.Slice(rs, func(a, b int) bool { return rs[a].Seed < rs[b].Seed })
-		os := make([]outcome, len(rs))
-		for i, r := range rs {
-			os[i] = r.outcome
-		}
-		printRow(w, fmt.Sprintf("%s (%d)", g.setting, len(rs)), g.procedure, os)
-		if !strings.HasPrefix(g.procedure, "stability") || calibrated[g.setting] {
+	for _, rs := range groups(recs) {
+		if !strings.HasPrefix(rs[0].Procedure, "stability") || calibrated[rs[0].Setting] {
 			continue
 		}
-		calibrated[g.setting] = true
+		calibrated[rs[0].Setting] = true
 		kind := rs[0].Kind
-		for _, o := range os {
+		for _, o := range outcomes(rs) {
 			c := calib[kind]
 			if c == nil {
 				c = make([][2]int, len(calibrationThresholds))
