@@ -299,41 +299,32 @@ type record struct {
 	outcome
 }
 
+// recordJSON is a record's JSON form: the outcome's fields exported, and
+// unknown values as null.
+type recordJSON struct {
+	Setting, Kind, Procedure string
+	Seed                     int
+	Precision, Recall, F1    jsonfloat.Float
+	FalseBinary              int
+	FalseContinuous          int
+	BinaryNodes              int
+	ContinuousNodes          int
+	Seconds                  jsonfloat.Float
+	Frequencies              []float64
+	Truths                   []bool
+	OracleZ                  []float64
+}
+
 // MarshalJSON and UnmarshalJSON carry the outcome's fields.
 func (r record) MarshalJSON() ([]byte, error) {
-	type plain struct {
-		Setting, Kind, Procedure string
-		Seed                     int
-		Precision, Recall, F1    jsonfloat.Float
-		FalseBinary              int
-		FalseContinuous          int
-		BinaryNodes              int
-		ContinuousNodes          int
-		Seconds                  jsonfloat.Float
-		Frequencies              []float64
-		Truths                   []bool
-		OracleZ                  []float64
-	}
 	o := r.outcome
 	f := func(x float64) jsonfloat.Float { return jsonfloat.Float(x) }
-	return json.Marshal(plain{r.Setting, r.Kind, r.Procedure, r.Seed, f(o.precision), f(o.recall), f(o.f1), o.falseBinary,
+	return json.Marshal(recordJSON{r.Setting, r.Kind, r.Procedure, r.Seed, f(o.precision), f(o.recall), f(o.f1), o.falseBinary,
 		o.falseContinuous, o.binaryNodes, o.contNode, f(o.seconds), o.freqs, o.truths, o.oracleZ})
 }
 
 func (r *record) UnmarshalJSON(b []byte) error {
-	var p struct {
-		Setting, Kind, Procedure string
-		Seed                     int
-		Precision, Recall, F1    jsonfloat.Float
-		FalseBinary              int
-		FalseContinuous          int
-		BinaryNodes              int
-		ContinuousNodes          int
-		Seconds                  jsonfloat.Float
-		Frequencies              []float64
-		Truths                   []bool
-		OracleZ                  []float64
-	}
+	var p recordJSON
 	if err := json.Unmarshal(b, &p); err != nil {
 		return err
 	}
