@@ -2,7 +2,6 @@ package main
 
 import (
 	"bufio"
-	"bytes"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -14,7 +13,6 @@ import (
 	"time"
 
 	"github.com/antecedent-lab/antecedent"
-	"github.com/antecedent-lab/antecedent/order"
 	"github.com/antecedent-lab/antecedent/simulate"
 )
 
@@ -97,8 +95,8 @@ type command struct {
 
 // runCommand writes the sample as a CSV file (shortest decimal form of
 // every value, so that it reads back to the same bits) and times the
-// command on it, as a user runs it.
-func runCommand(cli, dir string, c benchCase, s *simulate.Sample, o *order.Order, fitAlone *antecedent.Result) (*command, error) {
+// command on it and the case's order file, as a user runs it.
+func runCommand(cli, dir string, c benchCase, s *simulate.Sample, orderPath string, fitAlone *antecedent.Result) (*command, error) {
 	path := filepath.Join(dir, c.name+".csv")
 	f, err := os.Create(path)
 	if err != nil {
@@ -132,14 +130,6 @@ func runCommand(cli, dir string, c benchCase, s *simulate.Sample, o *order.Order
 	}
 	st, err := os.Stat(path)
 	if err != nil {
-		return nil, err
-	}
-	orderPath := filepath.Join(dir, c.name+".order")
-	var ob bytes.Buffer
-	if err := o.WriteText(&ob); err != nil {
-		return nil, err
-	}
-	if err := os.WriteFile(orderPath, ob.Bytes(), 0o644); err != nil {
 		return nil, err
 	}
 	out := filepath.Join(dir, c.name+".command.json")

@@ -313,14 +313,14 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	row := fmt.Sprintf("| %s | %d | %d | %d | %.2f (%.1f) | %.0f (%.0f) |", c.name, c.n, c.p, len(res.Edges), ours.Seconds, ours.CPU, float64(ours.PeakKiB)/1024, raw)
 	var whole *command
 	if cli != "" {
-		if whole, err = runCommand(cli, dir, c, s, o, res); err != nil {
+		if whole, err = runCommand(cli, dir, c, s, orderPath, res); err != nil {
 			return "", "", err
 		}
 	}
 	if skipPy {
 		return row + " – | – | – | – | – | – |", whole.row(c, ours.Seconds, nil), nil
 	}
-	spec, fitted, run, err := writeSpec(dir, c, res, s, pyNodes)
+	spec, nodes, run, err := writeSpec(dir, c, res, s, pyNodes)
 	if err != nil {
 		return "", "", err
 	}
@@ -333,9 +333,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 		if err != nil {
 			return "", "", err
 		}
-		// Shared work is counted once; per-node work scales with the
-		// number of nodes when only some were run.
-		times[k], ses[k] = py.estimate(lastSpec)
+		times[k], ses[k] = py.estimate(nodes)
 		peaks[k] = py.PeakKiB / 1024
 		agree[k] = agreement(res, py.Parents)
 		if whole != nil {
@@ -347,18 +345,18 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 			// The process's wall time with the fit of the sampled nodes
 			// replaced by the fit of all of them.
 			wall := time.Since(t0).Seconds()
-			all, _ := pw.estimate(lastSpec)
+			all, _ := pw.estimate(nodes)
 			pyWhole = append(pyWhole, pyWholeRun{read: pw.Load, whole: wall - pw.Seconds + all})
 		}
 	}
 	est := func(k int) string {
 		switch {
-		case run == fitted:
+		case run == len(nodes):
 			return ""
 		case math.IsNaN(ses[k]):
-			return fmt.Sprintf(" (est. from %d of %d nodes)", run, fitted)
+			return fmt.Sprintf(" (est. from %d of %d nodes)", run, len(nodes))
 		}
-		return fmt.Sprintf(" ± %.1f (est. from %d of %d nodes)", ses[k], run, fitted)
+		return fmt.Sprintf(" ± %.1f (est. from %d of %d nodes)", ses[k], run, len(nodes))
 	}
 	return row + fmt.Sprintf(" %.1f%s | %.1f%s | %.1f× | %.1f× | %.0f / %.0f | plain: %s; tuned: %s |",
 		times[0], est(0), times[1], est(1), times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), whole.row(c, ours.Seconds, pyWhole), nil
@@ -377,7 +375,7 @@ type specNode struct {
 // antecedent used. Folds are recomputed as Discover assigns them: one
 // random assignment shared by the continuous nodes, a stratified one per
 // binary node.
-func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Sample, pyNodes int) (string, int, int, error) {
+func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Sample, pyNodes int) (string, []specNode, int, error) {
 	index := map[string]int{}
 	for i, nd := range res.Nodes {
 		index[nd.Name] = i
@@ -422,19 +420,14 @@ func writeSpec(dir string, c benchCase, res *antecedent.Result, s *simulate.Samp
 	}
 	foldPath := filepath.Join(dir, c.name+".folds")
 	if err := os.WriteFile(foldPath, ids, 0o644); err != nil {
-		return "", 0, 0, err
+		return "", nil, 0, err
 	}
 	spec := map[string]any{"n": c.n, "p": c.p, "data": filepath.Join(dir, c.name+".f64"), "folds": foldPath,
 		"nodes": nodes, "tol": 1e-4, "jobs": 2}
 	b, _ := json.Marshal(spec)
 	path := filepath.Join(dir, c.name+".spec.json")
-	lastSpec = nodes
-	return path, len(nodes), run, os.WriteFile(path, b, 0o644)
+	return path, nodes, run, os.WriteFile(path, b, 0o644)
 }
-
-// lastSpec holds the nodes of the last spec written, for the estimates of
-// the reference's time.
-var lastSpec []specNode
 
 // agreement compares parent sets on the nodes scikit-learn ran.
 func agreement(res *antecedent.Result, parents map[string][]int) string {

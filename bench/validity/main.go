@@ -266,10 +266,10 @@ func main() {
 			continue
 		}
 		if s.match != nil {
-			var target float64
-			s, target = matchSignal(s)
+			var target, reached float64
+			s, target, reached = matchSignal(s)
 			notes = append(notes, fmt.Sprintf("%s: weights in [%.4g, %.4g] give a median oracle |z| of %.2f on seeds %d…%d, where %s gives %.2f.",
-				s, s.lo*s.scale, s.hi*s.scale, medianOracleZ(s), calibrationFirst, calibrationFirst+calibrationSeeds-1, s.match, target))
+				s, s.lo*s.scale, s.hi*s.scale, reached, calibrationFirst, calibrationFirst+calibrationSeeds-1, s.match, target))
 		}
 		res := run(s, procs, *first, *networks, *workers)
 		done := len(recs)
@@ -292,10 +292,8 @@ func main() {
 
 // record is one procedure on one network, as -raw writes it.
 type record struct {
-	Setting   string `json:"setting"`
-	Kind      string `json:"kind"`
-	Procedure string `json:"procedure"`
-	Seed      int    `json:"seed"`
+	Setting, Kind, Procedure string
+	Seed                     int
 	outcome
 }
 
@@ -611,14 +609,16 @@ func median(xs []float64) float64 {
 
 // matchSignal returns s with its edge weights scaled so that the median
 // oracle |z| of its true edges equals that of s.match, both on the
-// calibration networks: bisection on the log of the scale, in [1/256, 4],
-// to within 1% of the target (the median rises with the scale).
-func matchSignal(s setting) (setting, float64) {
+// calibration networks, with the two medians (the target, then the one
+// reached): bisection on the log of the scale, in [1/256, 4], to within
+// 1% of the target (the median rises with the scale).
+func matchSignal(s setting) (setting, float64, float64) {
 	target := medianOracleZ(*s.match)
 	lo, hi := math.Log(1.0/256), math.Log(4)
+	var z float64
 	for range 40 {
 		s.scale = math.Exp((lo + hi) / 2)
-		z := medianOracleZ(s)
+		z = medianOracleZ(s)
 		if math.Abs(z/target-1) < 0.01 {
 			break
 		}
@@ -628,7 +628,7 @@ func matchSignal(s setting) (setting, float64) {
 			hi = math.Log(s.scale)
 		}
 	}
-	return s, target
+	return s, target, z
 }
 
 // network draws network seed of setting s and runs each procedure on it;

@@ -41,7 +41,7 @@ func TestMatchSignal(t *testing.T) {
 		b := setting{kind: "binary", n: 300, p: 12, parents: 2, lo: strength.lo, hi: strength.hi, strength: strength.name}
 		c := b
 		c.kind, c.match = "continuous", &b
-		m, target := matchSignal(c)
+		m, target, _ := matchSignal(c)
 		if got := medianOracleZ(m); math.Abs(got/target-1) > 0.01 {
 			t.Errorf("%s: matched median |z| %.3f, binary %.3f", strength.name, got, target)
 		}
