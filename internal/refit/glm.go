@@ -30,12 +30,18 @@ type glm struct {
 	scale []float64
 	buf   []float64 // one row of the scaled design, 1 first
 	eta   []float64 // linear predictor of each row at the last deviance
+	// w holds the number of rows behind each row of x and y when the
+	// rows were grouped (see group); nil means one each.
+	w []float64
 }
 
 func newGLM(fam lasso.Family, x [][]float64, y []float64, rows []int, sd []float64) *glm {
 	g := &glm{fam: fam, x: x, y: y, rows: rows, n: len(y), scale: make([]float64, len(x)), buf: make([]float64, len(x)+1)}
 	if rows != nil {
 		g.n = len(rows)
+	}
+	if gx, gy, w, ok := group(x, y, rows); ok {
+		g.x, g.y, g.rows, g.n, g.w = gx, gy, nil, len(gy), w
 	}
 	for a := range x {
 		g.scale[a] = sd[a]
@@ -67,9 +73,17 @@ func (g *glm) deviance(b []float64) float64 {
 			e += b[a] * v
 		}
 		g.eta[t] = e
-		d += g.fam.Deviance(g.y[rowAt(g.rows, t)], g.fam.Mean(e))
+		d += g.weight(t) * g.fam.Deviance(g.y[rowAt(g.rows, t)], g.fam.Mean(e))
 	}
 	return d
+}
+
+// weight returns the number of rows behind row t.
+func (g *glm) weight(t int) float64 {
+	if g.w == nil {
+		return 1
+	}
+	return g.w[t]
 }
 
 // information returns the Fisher information at g.eta and, when rhs is
@@ -82,6 +96,9 @@ func (g *glm) information(rhs *mat.VecDense, exact bool) (*mat.SymDense, int) {
 	info := mat.NewSymDense(k+1, nil)
 	_, binomial := g.fam.(lasso.Binomial)
 	extreme := 0
+	// Sums in plain slices: the upper triangle row by row, then rhs.
+	sum := make([]float64, (k+1)*(k+1))
+	right := make([]float64, k+1)
 	for t := range g.n {
 		xt := g.row(t)
 		h, r := g.fam.Working(g.y[rowAt(g.rows, t)], g.eta[t])
@@ -89,19 +106,98 @@ func (g *glm) information(rhs *mat.VecDense, exact bool) (*mat.SymDense, int) {
 			mu := g.fam.Mean(g.eta[t])
 			h = mu * (1 - mu)
 		}
+		w := g.weight(t)
 		if exact && math.Abs(g.eta[t]) > 15 {
-			extreme++
+			extreme += int(w)
 		}
+		h *= w
 		for a := 0; a <= k; a++ {
-			if rhs != nil {
-				rhs.SetVec(a, rhs.AtVec(a)+h*r*xt[a])
-			}
+			ha := h * xt[a]
+			right[a] += ha * r
+			row := sum[a*(k+1) : (a+1)*(k+1)]
 			for c := a; c <= k; c++ {
-				info.SetSym(a, c, info.At(a, c)+h*xt[a]*xt[c])
+				row[c] += ha * xt[c]
 			}
 		}
 	}
+	for a := 0; a <= k; a++ {
+		for c := a; c <= k; c++ {
+			info.SetSym(a, c, sum[a*(k+1)+c])
+		}
+		if rhs != nil {
+			rhs.SetVec(a, right[a])
+		}
+	}
 	return info, extreme
+}
+
+// maxGrouped is the most predictors whose rows group (see group) is
+// asked to merge: their 0/1 patterns, and the response's, index a table
+// of 2^(k+1) entries.
+const maxGrouped = 16
+
+// group merges the rows (nil means all) whose predictors x and response y
+// are all equal, when every predictor and the response hold only 0 and 1
+// there and at most maxGrouped predictors are given, and the rows take at
+// most a quarter as many distinct values as there are rows. It returns the
+// distinct rows' columns, their responses and the number of rows behind
+// each, in the order of first appearance. A fit to the distinct rows
+// weighted by those numbers has the same likelihood, score and
+// information as a fit to the rows themselves, at a fraction of the work:
+// tables of 0/1 parents of a 0/1 node usually take a few dozen values.
+func group(x [][]float64, y []float64, rows []int) (gx [][]float64, gy, w []float64, ok bool) {
+	k := len(x)
+	n := len(y)
+	if rows != nil {
+		n = len(rows)
+	}
+	if k > maxGrouped || n < 8 {
+		return nil, nil, nil, false
+	}
+	slot := make([]int32, 1<<(k+1))
+	limit := n / 4
+	var keys []uint32
+	for t := range n {
+		i := rowAt(rows, t)
+		var key uint32
+		for a, c := range x {
+			switch c[i] {
+			case 0:
+			case 1:
+				key |= 1 << a
+			default:
+				return nil, nil, nil, false
+			}
+		}
+		switch y[i] {
+		case 0:
+		case 1:
+			key |= 1 << k
+		default:
+			return nil, nil, nil, false
+		}
+		if slot[key] == 0 {
+			if len(keys) == limit {
+				return nil, nil, nil, false
+			}
+			keys = append(keys, key)
+			w = append(w, 0)
+			slot[key] = int32(len(keys))
+		}
+		w[slot[key]-1]++
+	}
+	gx = make([][]float64, k)
+	for a := range gx {
+		gx[a] = make([]float64, len(keys))
+		for u, key := range keys {
+			gx[a][u] = float64(key >> a & 1)
+		}
+	}
+	gy = make([]float64, len(keys))
+	for u, key := range keys {
+		gy[u] = float64(key >> k & 1)
+	}
+	return gx, gy, w, true
 }
 
 // newton runs Newton–Raphson (Fisher scoring) from beta with step halving

@@ -164,3 +164,75 @@ func benchRegress(b *testing.B, fam lasso.Family, n, p int) {
 		}
 	}
 }
+
+// TestGroupedRows checks that merging equal rows of 0/1 parents and a 0/1
+// response (group) changes no number: the same data with one parent coded
+// 0/2, which is not merged, must give half its coefficient and standard
+// error and the same of everything else. The per-row path is the one
+// checked against statsmodels above.
+func TestGroupedRows(t *testing.T) {
+	cases := []struct {
+		name    string
+		n, k    int
+		rows    bool // fit a subset of the rows
+		grouped bool // whether group may merge the 0/1 version
+	}{
+		{"three parents", 5000, 3, false, true},
+		{"eight parents, rows subset", 4000, 8, true, true},
+		{"too many distinct rows", 60, 8, false, false},
+	}
+	for _, c := range cases {
+		r := rand.New(rand.NewPCG(7, uint64(c.n+c.k)))
+		x := make([][]float64, c.k)
+		for a := range x {
+			x[a] = make([]float64, c.n)
+			for i := range x[a] {
+				if r.Float64() < 0.2+0.05*float64(a) {
+					x[a][i] = 1
+				}
+			}
+		}
+		y := make([]float64, c.n)
+		for i := range y {
+			eta := -0.5
+			for a := range x {
+				eta += 0.3 * float64(a%3-1) * x[a][i]
+			}
+			if r.Float64() < 1/(1+math.Exp(-eta)) {
+				y[i] = 1
+			}
+		}
+		var rows []int
+		if c.rows {
+			for i := 0; i < c.n; i += 2 {
+				rows = append(rows, i)
+			}
+		}
+		if _, _, _, ok := group(x, y, rows); ok != c.grouped {
+			t.Fatalf("%s: grouped %v, want %v", c.name, ok, c.grouped)
+		}
+		got, err := Regress(context.Background(), lasso.Binomial{}, x, y, rows)
+		if err != nil {
+			t.Fatal(err)
+		}
+		x2 := append([][]float64(nil), x...)
+		x2[0] = make([]float64, c.n)
+		for i, v := range x[0] {
+			x2[0][i] = 2 * v
+		}
+		want, err := Regress(context.Background(), lasso.Binomial{}, x2, y, rows)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want.Coef[0] *= 2
+		want.SE[0] *= 2
+		rel := func(a, b float64) float64 { return math.Abs(a-b) / math.Max(1e-12, math.Abs(b)) }
+		worst := rel(got.Intercept, want.Intercept)
+		for a := range x {
+			worst = math.Max(worst, math.Max(rel(got.Coef[a], want.Coef[a]), rel(got.SE[a], want.SE[a])))
+		}
+		if worst > 1e-9 || got.Warning != want.Warning {
+			t.Errorf("%s: largest relative difference %.2g, warnings %q and %q", c.name, worst, got.Warning, want.Warning)
+		}
+	}
+}
