@@ -254,7 +254,7 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 		n.Warnings = append(n.Warnings, fmt.Sprintf("path ended early (%v) after %d penalties", full.Status, full.Len()))
 	}
 	for _, c := range res.Curve {
-		n.Curve = append(n.Curve, CurvePoint{Penalty: Number(c.Penalty), Mean: Number(c.Mean), SE: Number(c.SE), NonZero: c.NonZero})
+		n.Curve = append(n.Curve, CurvePoint{Penalty: Number(c.Penalty), Mean: Number(c.Mean), SE: Number(c.SE), PairSE: Number(c.PairSE), NonZero: c.NonZero})
 	}
 	n.Path = r.coefficientPath(out)
 	n.Penalised = []Term{}

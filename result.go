@@ -141,6 +141,10 @@ type CurvePoint struct {
 	Penalty Number `json:"penalty"`
 	Mean    Number `json:"mean"`
 	SE      Number `json:"se"`
+	// PairSE is the standard error of Mean minus the best point's Mean,
+	// from the folds' paired differences (cv.Point.PairSE); the
+	// paired-difference rule reads it.
+	PairSE  Number `json:"pair_se"`
 	NonZero int    `json:"nonzero"`
 }
 

@@ -239,23 +239,28 @@ func (r *run) refitScore(ctx context.Context, p *nodePlan, parents []int, out cv
 // the design columns cols, with its standard error: mean squared error for
 // Gaussian nodes (from the fold moments when they are shared), the mean
 // unit deviance otherwise.
-func (r *run) refitLoss(ctx context.Context, p *nodePlan, cols []int, out cvOut) (float64, float64, error) {
+func (r *run) refitLoss(ctx context.Context, p *nodePlan, cols []int, out cvOut) (mean, se float64, folds []float64, err error) {
 	if out.res.FoldPaths == nil && r.total != nil && p.role == gaussian {
 		mse, _ := r.foldMSE(p, cols)
 		m, se := meanSE(mse)
-		return m, se, nil
+		return m, se, mse, nil
 	}
 	pred, ys, err := r.foldPredictions(ctx, p, cols, out)
 	if err != nil {
-		return 0, 0, err
+		return 0, 0, nil, err
 	}
 	var s rowLoss
+	folds = make([]float64, len(pred))
 	for f := range pred {
+		var fl rowLoss
 		for i, y := range ys[f] {
-			s.add(p.family.Deviance(y, pred[f][i]))
+			d := p.family.Deviance(y, pred[f][i])
+			s.add(d)
+			fl.add(d)
 		}
+		folds[f] = fl.mean()
 	}
-	return s.mean(), s.se(), nil
+	return s.mean(), s.se(), folds, nil
 }
 
 // foldPredictions refits node p on the design columns cols over each

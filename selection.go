@@ -135,6 +135,7 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 	full := out.res.Full
 	var sets [][]int // design columns, in order of entry
 	var means, ses []float64
+	var foldLoss [][]float64 // by set, each fold's mean loss
 	seen := map[string]bool{}
 	for k := 0; k <= min(out.res.Best, full.Len()-1); k++ {
 		var set []int
@@ -156,11 +157,11 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 		for i, t := range set {
 			cols[i] = out.cols[t]
 		}
-		m, se, err := r.refitLoss(ctx, p, cols, out)
+		m, se, fl, err := r.refitLoss(ctx, p, cols, out)
 		if err != nil {
 			return nil, err
 		}
-		sets, means, ses = append(sets, set), append(means, m), append(ses, se)
+		sets, means, ses, foldLoss = append(sets, set), append(means, m), append(ses, se), append(foldLoss, fl)
 	}
 	best := 0
 	for i := range means {
@@ -169,8 +170,13 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 		}
 	}
 	pick := best // the first (smallest) set within the rule's standard errors
+	rule := r.cfg.CV.Rule
 	for i := range means {
-		if means[i] <= means[best]+r.cfg.CV.Rule.StandardErrors()*ses[best] {
+		allowed := rule.StandardErrors() * ses[best]
+		if rule.Paired() {
+			allowed = rule.StandardErrors() * pairSE(foldLoss[i], foldLoss[best])
+		}
+		if means[i] <= means[best]+allowed {
 			pick = i
 			break
 		}
@@ -182,13 +188,26 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 	return chosen, nil
 }
 
+// pairSE returns the standard error of the mean of the fold-by-fold
+// differences a − b (see cv.Point.PairSE).
+func pairSE(a, b []float64) float64 {
+	d := make([]float64, len(a))
+	for f := range a {
+		d[f] = a[f] - b[f]
+	}
+	_, se := meanSE(d)
+	return se
+}
+
 // Explanation returns two sentences that say, in words a clinician can
 // follow, how the procedure s chooses each variable's parents when the
 // penalty is chosen by rule. The README and the report print them; an
 // unknown selection gets a sentence saying so.
 func (s Selection) Explanation(rule cv.Rule) string {
 	penalty := "when the penalty is set, by cross-validation, to the one that predicts rows left out of the fit best"
-	if within := rule.Reach(); within != "" {
+	if rule.Paired() {
+		penalty = "when the penalty is set, by cross-validation, to the strongest one whose predictions of rows left out of the fit are worse than the best penalty's by at most " + rule.Reach() + " between them"
+	} else if within := rule.Reach(); within != "" {
 		penalty = "when the penalty is set, by cross-validation, to the strongest one that predicts rows left out of the fit within " + within + " of the best"
 	}
 	switch s {
@@ -203,7 +222,9 @@ func (s Selection) Explanation(rule cv.Rule) string {
 			"Its parents are the earlier variables still in the model " + penalty + "."
 	case RelaxedLasso:
 		best := "the set whose refit predicts rows left out of the fit best (cross-validation)"
-		if within := rule.Reach(); within != "" {
+		if rule.Paired() {
+			best = "the smallest set whose refit predicts rows left out of the fit worse than the best set's by at most " + rule.Reach() + " between them (cross-validation)"
+		} else if within := rule.Reach(); within != "" {
 			best = "the smallest set whose refit predicts rows left out of the fit within " + within + " of the best set (cross-validation)"
 		}
 		return "Each variable is predicted from the variables measured before it by one lasso regression, " +

@@ -13,6 +13,7 @@ import (
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/internal/opendata"
 	"github.com/antecedent-lab/antecedent/lasso"
+	"gonum.org/v1/gonum/stat"
 )
 
 type cvReference struct {
@@ -425,5 +426,105 @@ func TestRules(t *testing.T) {
 	}
 	if _, err := cv.ParseRule("1se"); err == nil {
 		t.Error("ParseRule accepted 1se")
+	}
+}
+
+// TestPairedDifference checks the paired-difference rule on the diabetes
+// data (Efron et al. 2004, as above) against its definition worked from
+// the returned curve and fold values: PairSE is the SD (K−1) over the folds
+// of each fold's loss minus its loss at the best penalty, over √K (common
+// practice for a paired comparison), and the choice is the largest penalty
+// whose mean exceeds the best by at most PairedMargin of them. Under
+// random folds whose losses move together, the paired standard error is
+// far below the one at the best point, so the rule reaches less far than
+// the one-SE rule with the same multiple would.
+func TestPairedDifference(t *testing.T) {
+	tab, err := opendata.ReadCSV("diabetes.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	x := opendata.UnitNorm(tab.Columns[:10])
+	folds, err := cv.Random(len(x[0]), 10, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got, err := cv.ParseRule("paired"); err != nil || got != cv.PairedDifference || got.String() != "paired" || !got.Paired() || cv.OneStandardError.Paired() {
+		t.Errorf("ParseRule(paired) = %v, %v", got, err)
+	}
+	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: tab.Columns[10]}, folds, &cv.Settings{Rule: cv.PairedDifference, WholePath: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	k := float64(len(r.FoldValues))
+	want := -1
+	for j, p := range r.Curve {
+		d := make([]float64, len(r.FoldValues))
+		for f, v := range r.FoldValues {
+			d[f] = v[j] - v[r.Best]
+		}
+		se := stat.StdDev(d, nil) / math.Sqrt(k)
+		if math.Abs(p.PairSE-se) > 1e-12*(1+se) {
+			t.Fatalf("point %d: PairSE %g, want %g", j, p.PairSE, se)
+		}
+		if want < 0 && j <= r.Best && p.Mean-r.Curve[r.Best].Mean <= cv.PairedMargin*se {
+			want = j
+		}
+	}
+	if r.Selected != want || r.Curve[r.Best].PairSE != 0 {
+		t.Errorf("selected %d, want %d; PairSE at the best %g", r.Selected, want, r.Curve[r.Best].PairSE)
+	}
+	one := slices.IndexFunc(r.Curve, func(p cv.Point) bool { return p.Mean <= r.Curve[r.Best].Mean+cv.PairedMargin*r.Curve[r.Best].SE })
+	if !(one < r.Selected) {
+		t.Errorf("paired rule chose %d, the best point's SE with the same multiple %d: want the paired rule nearer the best", r.Selected, one)
+	}
+}
+
+// TestPairSEPerRow checks Point.PairSE of a binomial path against its
+// definition worked from the returned fold paths: each held-out row's
+// deviance at a penalty minus its deviance at the best penalty, pooled
+// over the folds, their SD over √(n−1) (common practice for a paired
+// comparison), on the breast cancer data (Wolberg et al.; scikit-learn's
+// copy) with stratified folds.
+func TestPairSEPerRow(t *testing.T) {
+	tab, err := opendata.ReadCSV("breast_cancer.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	y := tab.Column("benign")
+	x := opendata.UnitNorm(tab.Columns[:10])
+	folds, err := cv.Stratified(y, 10, 5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds,
+		&cv.Settings{Path: lasso.Settings{Family: lasso.Binomial{}}, Rule: cv.PairedDifference})
+	if err != nil {
+		t.Fatal(err)
+	}
+	loss := func(p *lasso.Path, k, i int) float64 {
+		b0, b := p.Dense(k)
+		eta := b0
+		for t, j := range p.Predictors {
+			eta += b[t] * x[j][i]
+		}
+		return lasso.Binomial{}.Deviance(y[i], lasso.Binomial{}.Mean(eta))
+	}
+	for k := range r.Curve {
+		var n, s, s2 float64
+		for f, p := range r.FoldPaths {
+			_, held := folds.Split(f, nil)
+			for _, i := range held {
+				d := loss(p, k, i) - loss(p, r.Best, i)
+				n, s, s2 = n+1, s+d, s2+d*d
+			}
+		}
+		m := s / n
+		want := math.Sqrt(math.Max(s2/n-m*m, 0) / (n - 1))
+		if got := r.Curve[k].PairSE; math.Abs(got-want) > 1e-9*(want+1e-12) {
+			t.Fatalf("point %d: PairSE %g, want %g", k, got, want)
+		}
+	}
+	if r.Selected > r.Best || r.Curve[r.Selected].Mean-r.Curve[r.Best].Mean > cv.PairedMargin*r.Curve[r.Selected].PairSE {
+		t.Errorf("selected %d beyond its reach (best %d)", r.Selected, r.Best)
 	}
 }

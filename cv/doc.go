@@ -16,9 +16,15 @@
 // one-standard-error rule (OneStandardError, the default): the largest
 // penalty whose mean is within one SE of the best (Breiman, Friedman,
 // Olshen & Stone 1984; Hastie, Tibshirani & Friedman, The Elements of
-// Statistical Learning, 2nd ed., sec. 7.10), or by the same with half an SE
-// (HalfStandardError, not a published rule; see its comment). For AUC
-// larger is better and the rules are mirrored.
+// Statistical Learning, 2nd ed., sec. 7.10), by the same with half an SE
+// (HalfStandardError, not a published rule; see its comment), or by the
+// paired-difference rule (PairedDifference): the largest penalty whose mean
+// exceeds the best by at most PairedMargin standard errors of that
+// difference, from the held-out rows' paired losses (each row's loss at the
+// penalty minus its loss at the best penalty; the folds' paired values under
+// FitMoments and for AUC), so that the yardstick is the noise of the
+// comparison rather than how well the best mean is known. For AUC larger is
+// better and the rules are mirrored.
 //
 // The full-data path and the folds' paths are fitted in step, in blocks
 // of ten penalties, and all stop once the mean held-out loss has risen at

@@ -80,6 +80,10 @@ type Result struct {
 	// losses (nil when the measure is not a mean of per-row losses or the
 	// rows' predictions were not formed).
 	rows [][]rowSums
+	// pairRows, when set, returns for every penalty the sums of
+	// the held-out rows' losses there minus their losses at best, pooled
+	// over the folds (see Point.PairSE).
+	pairRows func(best int) []rowSums
 }
 
 // FoldPath returns fold f's training path, fitted on the same grid as
@@ -127,7 +131,7 @@ func resolveSettings(s *Settings) (Settings, lasso.Family, error) {
 	if c.Rule == DefaultRule {
 		c.Rule = OneStandardError
 	}
-	if c.Rule != MinimumLoss && c.Rule != OneStandardError && c.Rule != HalfStandardError {
+	if c.Rule != MinimumLoss && c.Rule != OneStandardError && c.Rule != HalfStandardError && c.Rule != PairedDifference {
 		return c, fam, fmt.Errorf("cv: unknown rule %d", int(c.Rule))
 	}
 	if c.Workers < 0 {
@@ -217,8 +221,50 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 		r.FoldPaths[f] = fw.stepper.Path()
 	}
 	r.paths = r.FoldPaths
+	if c.Measure.perRow() {
+		r.pairRows = func(best int) []rowSums {
+			out := make([]rowSums, stop)
+			for _, fp := range folder {
+				fp.(*foldWalk).pairSums(best, out)
+			}
+			return out
+		}
+	}
 	r.finish(r.Full.Penalties, r.Full.NonZero)
 	return r, nil
+}
+
+// pairSums adds to out[k], for every penalty index k of out, the sums of
+// this fold's held-out rows' losses at k minus their losses at best.
+// Rows whose loss is infinite at either are left out, as sumRows leaves
+// them out of the curve.
+func (fw *foldWalk) pairSums(best int, out []rowSums) {
+	path := fw.stepper.Path()
+	at := func(k int) { fw.ho.meanTo(fw.mu, path, min(k, path.Len()-1)) }
+	at(best)
+	base := make([]float64, len(fw.y))
+	for i, v := range fw.y {
+		base[i] = fw.measure.rowLoss(fw.fam, v, fw.mu[i])
+	}
+	for k := range out {
+		at(k)
+		var s rowSums
+		for i, v := range fw.y {
+			d := fw.measure.rowLoss(fw.fam, v, fw.mu[i]) - base[i]
+			if math.IsInf(d, 0) || math.IsNaN(d) {
+				continue
+			}
+			wi := 1.0
+			if fw.w != nil {
+				wi = fw.w[i]
+			}
+			s.wl += wi * d
+			s.wl2 += wi * d * d
+			s.w += wi
+			s.w2 += wi * wi
+		}
+		out[k].add(s)
+	}
 }
 
 // foldPath is one fold's path in a lockstep cross-validation.
@@ -528,10 +574,16 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 		r.Curve[k] = Point{Penalty: l, LogPenalty: -math.Log(l), NonZero: nonZero[k]}
 	}
 	summarise(r.Curve, r.FoldValues, r.rows)
+	pair(r.Curve, r.FoldValues, r.Measure.LargerIsBetter())
+	if best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false); best >= 0 && r.pairRows != nil {
+		for k, s := range r.pairRows(best) {
+			r.Curve[k].PairSE = s.se()
+		}
+	}
 	r.Best, r.OneSE = Choose(r.Curve, r.Measure.LargerIsBetter())
 	r.Selected = r.OneSE
 	if r.Rule != OneStandardError {
-		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Rule.StandardErrors())
+		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Rule.StandardErrors(), r.Rule.Paired())
 	}
 	if r.Selected < 0 {
 		r.Best, r.OneSE, r.Selected = 0, 0, 0

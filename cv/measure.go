@@ -119,19 +119,7 @@ func (m Measure) perRow() bool { return m != AreaUnderCurve }
 func sumRows(m Measure, fam lasso.Family, mu, y, w []float64) rowSums {
 	var s rowSums
 	for i, v := range y {
-		var l float64
-		switch m {
-		case Deviance:
-			l = fam.Deviance(v, mu[i])
-		case MeanSquaredError:
-			l = (v - mu[i]) * (v - mu[i])
-		case MeanAbsoluteError:
-			l = math.Abs(v - mu[i])
-		case Misclassification:
-			if (mu[i] >= 0.5) != (v == 1) {
-				l = 1
-			}
-		}
+		l := m.rowLoss(fam, v, mu[i])
 		if math.IsInf(l, 0) || math.IsNaN(l) {
 			continue // a prediction of exactly 0 or 1 that was wrong
 		}
@@ -145,6 +133,24 @@ func sumRows(m Measure, fam lasso.Family, mu, y, w []float64) rowSums {
 		s.w2 += wi * wi
 	}
 	return s
+}
+
+// rowLoss returns the loss of one row with response v and fitted mean mu
+// under a per-row measure.
+func (m Measure) rowLoss(fam lasso.Family, v, mu float64) float64 {
+	switch m {
+	case Deviance:
+		return fam.Deviance(v, mu)
+	case MeanSquaredError:
+		return (v - mu) * (v - mu)
+	case MeanAbsoluteError:
+		return math.Abs(v - mu)
+	case Misclassification:
+		if (mu >= 0.5) != (v == 1) {
+			return 1
+		}
+	}
+	return 0
 }
 
 // MarshalText implements encoding.TextMarshaler.

@@ -26,9 +26,11 @@ type chart struct {
 	ZeroY   float64
 	HasZero bool
 	// Band is the polygon of an uncertainty band, empty when none.
-	Band   string
-	Lines  []series
-	Rule   *segment
+	Band  string
+	Lines []series
+	Rule  *segment
+	// Reach is a vertical stroke from a point: the allowance a rule gave it.
+	Reach  *stroke
 	Dots   []dot
 	Labels []chartLabel
 	// Caption explains the chart in a sentence or two.
@@ -51,6 +53,8 @@ type series struct {
 }
 
 type segment struct{ X1, X2, Y float64 }
+
+type stroke struct{ X, Y1, Y2 float64 }
 
 type dot struct {
 	X, Y  float64

@@ -67,3 +67,42 @@ func TestRuleLevel(t *testing.T) {
 		t.Errorf("level lines at %g (one-SE) and %g (half-SE) from the best point at %g; want the second half as far", one, half, best)
 	}
 }
+
+// TestPairedReach checks the chart of the paired-difference rule
+// (cv.PairedDifference): the level line lies at the best point's mean, and
+// a stroke from the chosen point spans its allowance, the rule's multiple
+// of the point's standard error of the paired difference, on the chart's
+// own scale; the other rules draw no stroke.
+func TestPairedReach(t *testing.T) {
+	var curve []antecedent.CurvePoint
+	for k, m := range []float64{5, 4.2, 3.9, 3.7, 3.8} {
+		curve = append(curve, antecedent.CurvePoint{Penalty: antecedent.Number(math.Pow(2, -float64(k))), Mean: antecedent.Number(m), SE: 0.3, PairSE: antecedent.Number(0.1 * float64(4-k))})
+	}
+	n := &antecedent.Node{Curve: curve, Penalty: curve[2].Penalty, BestPenalty: curve[3].Penalty, Rule: cv.PairedDifference, Measure: cv.Deviance}
+	c := cvChart(n, "x")
+	if c == nil || c.Rule == nil || c.Reach == nil {
+		t.Fatal("no level line or no stroke")
+	}
+	var best, chosen dot
+	for _, d := range c.Dots {
+		switch d.Class {
+		case "lowest":
+			best = d
+		case "chosen":
+			chosen = d
+		}
+	}
+	if math.Abs(c.Rule.Y-best.Y) > 1e-9 {
+		t.Errorf("level line at %g, best point at %g", c.Rule.Y, best.Y)
+	}
+	// The y scale from two points of the curve: mean 3.9 (chosen) and 3.7 (best).
+	perUnit := (best.Y - chosen.Y) / (3.9 - 3.7)
+	want := cv.PairedMargin * 0.2 * perUnit
+	if c.Reach.X != chosen.X || math.Abs(c.Reach.Y1-chosen.Y) > 1e-9 || math.Abs((c.Reach.Y2-c.Reach.Y1)-want) > 1e-6*math.Abs(want) {
+		t.Errorf("stroke %+v from the chosen point %+v; want length %g", *c.Reach, chosen, want)
+	}
+	n.Rule = cv.OneStandardError
+	if c := cvChart(n, "x"); c.Reach != nil {
+		t.Errorf("one-SE rule: a stroke %+v", *c.Reach)
+	}
+}

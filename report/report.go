@@ -549,17 +549,21 @@ func parentCount(k int) string {
 // uncertainty as a band of ±1 standard error, the chosen penalty as one
 // labelled point on the curve giving the number of parents there, and,
 // under the one-SE rule, the lowest point and the level within one
-// standard error of it that the choice had to reach. When the strong end
+// standard error of it that the choice had to reach; under the
+// paired-difference rule, the lowest point's level and, at the chosen
+// point, the allowance (its multiple of the standard error of the
+// difference) that had to reach that level. When the strong end
 // of the curve rises far beyond the region of the choice, the value axis
 // is cut to that region and the curve leaves the plot at the top.
 func cvChart(n *antecedent.Node, id string) *chart {
-	var pen, lx, ys, lo, hi []float64
+	var pen, lx, ys, lo, hi, pair []float64
 	for _, p := range n.Curve {
 		l, m := float64(p.Penalty), float64(p.Mean)
 		if !(l > 0) || !finite(l) || !finite(m) {
 			continue
 		}
 		se := float64(p.SE)
+		pair = append(pair, float64(p.PairSE))
 		pen, lx, ys = append(pen, l), append(lx, math.Log10(l)), append(ys, m)
 		lo, hi = append(lo, m-se), append(hi, m+se)
 	}
@@ -612,7 +616,9 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		better = "higher is better"
 	}
 	c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss.", measureName(n.Measure), better)
-	if reach := n.Rule.Reach(); reach != "" {
+	if n.Rule.Paired() {
+		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's by at most %s between them (open circle); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), n.Rule.Reach())
+	} else if reach := n.Rule.Reach(); reach != "" {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
 	} else if n.Rule == cv.MinimumLoss {
 		c.Caption += fmt.Sprintf(" Minimum-loss rule: the penalty with the best held-out %s.", measureName(n.Measure))
@@ -629,6 +635,19 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		lvl := ys[best] + n.Rule.StandardErrors()*(hi[best]-ys[best])
 		if larger {
 			lvl = ys[best] - n.Rule.StandardErrors()*(ys[best]-lo[best])
+		}
+		if n.Rule.Paired() {
+			// The paired rule compares each point's mean, less its
+			// allowance, with the best mean itself.
+			lvl = ys[best]
+			reach := n.Rule.StandardErrors() * pair[chosen]
+			if larger {
+				reach = -reach
+			}
+			if finite(reach) {
+				end := math.Min(math.Max(sy.at(ys[chosen]-reach), c.Top), c.Top+c.PlotH)
+				c.Reach = &stroke{X: x, Y1: y, Y2: end}
+			}
 		}
 		if finite(lvl) {
 			c.Rule = &segment{X1: sx.at(lx[best]), X2: x, Y: sy.at(lvl)}
