@@ -94,11 +94,13 @@ type Node struct {
 	Fitted bool `json:"fitted"`
 	// Penalty is the selected penalty; BestPenalty and OneSEPenalty those
 	// of the minimum and one-standard-error rules.
-	Penalty      Number     `json:"penalty"`
-	BestPenalty  Number     `json:"best_penalty"`
-	OneSEPenalty Number     `json:"one_se_penalty"`
-	Rule         cv.Rule    `json:"rule"`
-	Measure      cv.Measure `json:"measure"`
+	Penalty      Number  `json:"penalty"`
+	BestPenalty  Number  `json:"best_penalty"`
+	OneSEPenalty Number  `json:"one_se_penalty"`
+	Rule         cv.Rule `json:"rule"`
+	// Margin is how many standard errors the rule allowed (cv.Result.Margin).
+	Margin  Number     `json:"margin"`
+	Measure cv.Measure `json:"measure"`
 	// Score is the cross-validated score of the model whose effects are
 	// shown: the parents refitted without penalty inside each training
 	// fold and scored on the held-out rows (AUC averaged over folds for

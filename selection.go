@@ -174,7 +174,8 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 	for i := range means {
 		allowed := rule.StandardErrors() * ses[best]
 		if rule.Paired() {
-			allowed = rule.StandardErrors() * pairSE(foldLoss[i], foldLoss[best])
+			// Pairs of fold values: the margin of their K−1 degrees of freedom.
+			allowed = cv.StudentMargin(rule.StandardErrors(), len(foldLoss[i])-1) * pairSE(foldLoss[i], foldLoss[best])
 		}
 		if means[i] <= means[best]+allowed {
 			pick = i

@@ -14,6 +14,7 @@ import (
 	"github.com/antecedent-lab/antecedent/internal/opendata"
 	"github.com/antecedent-lab/antecedent/lasso"
 	"gonum.org/v1/gonum/stat"
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 type cvReference struct {
@@ -466,14 +467,21 @@ func TestPairedDifference(t *testing.T) {
 		if math.Abs(p.PairSE-se) > 1e-12*(1+se) {
 			t.Fatalf("point %d: PairSE %g, want %g", j, p.PairSE, se)
 		}
-		if want < 0 && j <= r.Best && p.Mean-r.Curve[r.Best].Mean <= cv.PairedMargin*se {
+		if want < 0 && j <= r.Best && p.Mean-r.Curve[r.Best].Mean <= r.Margin*se {
 			want = j
 		}
 	}
 	if r.Selected != want || r.Curve[r.Best].PairSE != 0 {
 		t.Errorf("selected %d, want %d; PairSE at the best %g", r.Selected, want, r.Curve[r.Best].PairSE)
 	}
-	one := slices.IndexFunc(r.Curve, func(p cv.Point) bool { return p.Mean <= r.Curve[r.Best].Mean+cv.PairedMargin*r.Curve[r.Best].SE })
+	// The fold pairs' standard error rests on 9 degrees of freedom: the
+	// margin is the t quantile at the normal margin's level: 1.64868 by
+	// scipy 1.10.1 (python3 -c "from scipy.stats import t, norm;
+	// print(t.ppf(norm.cdf(1.5), 9))"), and by gonum's t distribution.
+	if lvl := (distuv.StudentsT{Mu: 0, Sigma: 1, Nu: 9}).CDF(r.Margin); math.Abs(lvl-distuv.UnitNormal.CDF(cv.PairedMargin)) > 1e-9 || math.Abs(r.Margin-1.6486804351256144) > 1e-9 {
+		t.Errorf("margin %g at level %g, want the t quantile of level Φ(%g)", r.Margin, lvl, cv.PairedMargin)
+	}
+	one := slices.IndexFunc(r.Curve, func(p cv.Point) bool { return p.Mean <= r.Curve[r.Best].Mean+r.Margin*r.Curve[r.Best].SE })
 	if !(one < r.Selected) {
 		t.Errorf("paired rule chose %d, the best point's SE with the same multiple %d: want the paired rule nearer the best", r.Selected, one)
 	}
@@ -523,6 +531,9 @@ func TestPairSEPerRow(t *testing.T) {
 		if got := r.Curve[k].PairSE; math.Abs(got-want) > 1e-9*(want+1e-12) {
 			t.Fatalf("point %d: PairSE %g, want %g", k, got, want)
 		}
+	}
+	if r.Margin != cv.PairedMargin {
+		t.Errorf("per-row pairs: margin %g, want %g", r.Margin, cv.PairedMargin)
 	}
 	if r.Selected > r.Best || r.Curve[r.Selected].Mean-r.Curve[r.Best].Mean > cv.PairedMargin*r.Curve[r.Selected].PairSE {
 		t.Errorf("selected %d beyond its reach (best %d)", r.Selected, r.Best)

@@ -72,6 +72,12 @@ type Result struct {
 	// Best is the index of the best mean; OneSE the index chosen by the
 	// one-standard-error rule; Selected the index chosen by Rule.
 	Best, OneSE, Selected int
+	// Margin is how many standard errors Rule allowed: Rule.StandardErrors(),
+	// except under PairedDifference when the pairs are the folds' (see
+	// Point.PairSE), where the standard error rests on K−1 degrees of
+	// freedom and the margin is the Student t quantile of the same
+	// one-sided level as PairedMargin's normal one (1.66 for ten folds).
+	Margin float64
 
 	// paths holds each fold's training path, whichever way it was fitted.
 	paths []*lasso.Path
@@ -582,8 +588,12 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	}
 	r.Best, r.OneSE = Choose(r.Curve, r.Measure.LargerIsBetter())
 	r.Selected = r.OneSE
+	r.Margin = r.Rule.StandardErrors()
+	if r.Rule.Paired() && r.pairRows == nil {
+		r.Margin = StudentMargin(r.Margin, len(r.FoldValues)-1)
+	}
 	if r.Rule != OneStandardError {
-		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Rule.StandardErrors(), r.Rule.Paired())
+		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Margin, r.Rule.Paired())
 	}
 	if r.Selected < 0 {
 		r.Best, r.OneSE, r.Selected = 0, 0, 0

@@ -3,6 +3,8 @@ package cv
 import (
 	"fmt"
 	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // Rule chooses a penalty from the cross-validation curve.
@@ -53,9 +55,11 @@ const (
 )
 
 // PairedMargin is how many standard errors of the paired difference
-// PairedDifference allows: 1.5, between 1 (many more false parents at no
-// signal) and 2 (binary recall lost at 1,000 rows and fewer) on the
-// validity harness.
+// PairedDifference allows when the pairs are the held-out rows': 1.5,
+// between 1 (many more false parents at no signal) and 2 (binary recall
+// lost at 1,000 rows and fewer) on the validity harness. With the folds'
+// pairs the margin is the Student t quantile of the same level
+// (StudentMargin; Result.Margin holds the one used).
 const PairedMargin = 1.5
 
 // StandardErrors returns how many standard errors above the best mean
@@ -285,6 +289,16 @@ func summarise(curve []Point, loss [][]float64, rows [][]rowSums) {
 			curve[j].SE = all.se()
 		}
 	}
+}
+
+// StudentMargin returns the Student t quantile with df degrees of freedom
+// at the one-sided level Φ(m) of a normal margin m: the margin that keeps
+// m's level when the standard error is estimated from df+1 values.
+func StudentMargin(m float64, df int) float64 {
+	if df < 1 {
+		return math.Inf(1)
+	}
+	return distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(distuv.UnitNormal.CDF(m))
 }
 
 // pair sets PairSE of every point of curve from the fold values loss[f][k]

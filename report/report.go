@@ -616,8 +616,12 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		better = "higher is better"
 	}
 	c.Caption = fmt.Sprintf("Held-out %s (%s); band: ±1 standard error of the mean held-out loss.", measureName(n.Measure), better)
+	margin := n.Rule.StandardErrors()
+	if m := float64(n.Margin); finite(m) && m > 0 {
+		margin = m
+	}
 	if n.Rule.Paired() {
-		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's by at most %s between them (open circle); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), n.Rule.Reach())
+		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's by at most %.3g standard errors of the difference between them (open circle); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), margin)
 	} else if reach := n.Rule.Reach(); reach != "" {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
 	} else if n.Rule == cv.MinimumLoss {
@@ -640,7 +644,7 @@ func cvChart(n *antecedent.Node, id string) *chart {
 			// The paired rule compares each point's mean, less its
 			// allowance, with the best mean itself.
 			lvl = ys[best]
-			reach := n.Rule.StandardErrors() * pair[chosen]
+			reach := margin * pair[chosen]
 			if larger {
 				reach = -reach
 			}
