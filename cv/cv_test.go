@@ -389,15 +389,7 @@ func foldSpread(v [][]float64, k int) float64 {
 // the largest penalty whose mean is within m standard errors of the best,
 // m = 1, ½ and 0; and that the three nest (one-SE ≤ half-SE ≤ best).
 func TestRules(t *testing.T) {
-	tab, err := opendata.ReadCSV("diabetes.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	x := opendata.UnitNorm(tab.Columns[:10])
-	folds, err := cv.Random(len(x[0]), 10, 3)
-	if err != nil {
-		t.Fatal(err)
-	}
+	x, y, folds := diabetesFolds(t)
 	chosen := map[cv.Rule]int{}
 	for _, tc := range []struct {
 		rule cv.Rule
@@ -410,7 +402,7 @@ func TestRules(t *testing.T) {
 		if !strings.HasSuffix(tc.rule.Title(), " rule") || (tc.rule.Reach() == "") != (tc.m == 0) {
 			t.Errorf("%s: title %q, reach %q", tc.name, tc.rule.Title(), tc.rule.Reach())
 		}
-		r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: tab.Columns[10]}, folds, &cv.Settings{Rule: tc.rule, WholePath: true})
+		r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds, &cv.Settings{Rule: tc.rule, WholePath: true})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -440,19 +432,11 @@ func TestRules(t *testing.T) {
 // far below the one at the best point, so the rule reaches less far than
 // the one-SE rule with the same multiple would.
 func TestPairedDifference(t *testing.T) {
-	tab, err := opendata.ReadCSV("diabetes.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	x := opendata.UnitNorm(tab.Columns[:10])
-	folds, err := cv.Random(len(x[0]), 10, 3)
-	if err != nil {
-		t.Fatal(err)
-	}
+	x, y, folds := diabetesFolds(t)
 	if got, err := cv.ParseRule("paired"); err != nil || got != cv.PairedDifference || got.String() != "paired" || !got.Paired() || cv.OneStandardError.Paired() {
 		t.Errorf("ParseRule(paired) = %v, %v", got, err)
 	}
-	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: tab.Columns[10]}, folds, &cv.Settings{Rule: cv.PairedDifference, WholePath: true})
+	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds, &cv.Settings{Rule: cv.PairedDifference, WholePath: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -538,4 +522,21 @@ func TestPairSEPerRow(t *testing.T) {
 	if r.Selected > r.Best || r.Curve[r.Selected].Mean-r.Curve[r.Best].Mean > cv.PairedMargin*r.Curve[r.Selected].PairSE {
 		t.Errorf("selected %d beyond its reach (best %d)", r.Selected, r.Best)
 	}
+}
+
+// diabetesFolds returns the diabetes data's ten predictors scaled to unit
+// norm, its response (Efron et al. 2004, as above) and ten random folds
+// (seed 3).
+func diabetesFolds(t *testing.T) (x [][]float64, y []float64, folds *cv.Folds) {
+	t.Helper()
+	tab, err := opendata.ReadCSV("diabetes.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	x = opendata.UnitNorm(tab.Columns[:10])
+	folds, err = cv.Random(len(x[0]), 10, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return x, tab.Columns[10], folds
 }
