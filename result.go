@@ -144,9 +144,9 @@ type CurvePoint struct {
 	Mean    Number `json:"mean"`
 	SE      Number `json:"se"`
 	// PairSE is the standard error of Mean minus the best point's Mean,
-	// from the folds' paired differences (cv.Point.PairSE); the
-	// paired-difference rule reads it.
-	PairSE  Number `json:"pair_se"`
+	// from paired differences (cv.Point.PairSE); the paired-difference
+	// rule reads it, and it is formed (and written) only under that rule.
+	PairSE  Number `json:"pair_se,omitempty"`
 	NonZero int    `json:"nonzero"`
 }
 

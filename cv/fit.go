@@ -580,11 +580,17 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 		r.Curve[k] = Point{Penalty: l, LogPenalty: -math.Log(l), NonZero: nonZero[k]}
 	}
 	summarise(r.Curve, r.FoldValues, r.rows)
-	pair(r.Curve, r.FoldValues, r.Measure.LargerIsBetter())
-	if best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false); best >= 0 && r.pairRows != nil {
+	// The paired differences cost a second pass over the held-out
+	// predictions: they are formed for the rule that reads them only.
+	switch best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false); {
+	case !r.Rule.Paired():
+	case best >= 0 && r.pairRows != nil:
 		for k, s := range r.pairRows(best) {
 			r.Curve[k].PairSE = s.se()
 		}
+	default:
+		pair(r.Curve, r.FoldValues, r.Measure.LargerIsBetter())
+		r.pairRows = nil // the margin below reads which pairs were used
 	}
 	r.Best, r.OneSE = Choose(r.Curve, r.Measure.LargerIsBetter())
 	r.Selected = r.OneSE

@@ -164,7 +164,9 @@ type Point struct {
 	// point, their weighted SD over √(n−1) as for SE. Otherwise (AUC,
 	// FitMoments) they are the folds': the SD (K−1) over the folds of each
 	// fold's value here minus its value at the best point, over √K. It is
-	// 0 at the best point.
+	// 0 at the best point. It is formed only under PairedDifference (the
+	// rows' pairs cost a second pass over the held-out predictions) and
+	// left at 0 otherwise.
 	PairSE  float64
 	NonZero int // non-zero coefficients of the full-data fit
 }
