@@ -76,7 +76,7 @@ type Result struct {
 	// except under PairedDifference when the pairs are the folds' (see
 	// Point.PairSE), where the standard error rests on K−1 degrees of
 	// freedom and the margin is the Student t quantile of the same
-	// one-sided level as PairedMargin's normal one (1.66 for ten folds).
+	// one-sided level as PairedMargin's normal one (1.649 for ten folds).
 	Margin float64
 
 	// paths holds each fold's training path, whichever way it was fitted.
