@@ -260,14 +260,7 @@ func (fw *foldWalk) pairSums(best int, out []rowSums) {
 			if math.IsInf(d, 0) || math.IsNaN(d) {
 				continue
 			}
-			wi := 1.0
-			if fw.w != nil {
-				wi = fw.w[i]
-			}
-			s.wl += wi * d
-			s.wl2 += wi * d * d
-			s.w += wi
-			s.w2 += wi * wi
+			s.addRow(fw.w, i, d)
 		}
 		out[k].add(s)
 	}

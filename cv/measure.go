@@ -123,14 +123,7 @@ func sumRows(m Measure, fam lasso.Family, mu, y, w []float64) rowSums {
 		if math.IsInf(l, 0) || math.IsNaN(l) {
 			continue // a prediction of exactly 0 or 1 that was wrong
 		}
-		wi := 1.0
-		if w != nil {
-			wi = w[i]
-		}
-		s.wl += wi * l
-		s.wl2 += wi * l * l
-		s.w += wi
-		s.w2 += wi * wi
+		s.addRow(w, i, l)
 	}
 	return s
 }

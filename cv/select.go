@@ -332,6 +332,18 @@ func pair(curve []Point, loss [][]float64, larger bool) {
 // rowSums accumulates weighted per-row losses: Σw·l, Σw·l², Σw and Σw².
 type rowSums struct{ wl, wl2, w, w2 float64 }
 
+// addRow adds loss l of row i, weighted by w[i] (1 when w is nil).
+func (s *rowSums) addRow(w []float64, i int, l float64) {
+	wi := 1.0
+	if w != nil {
+		wi = w[i]
+	}
+	s.wl += wi * l
+	s.wl2 += wi * l * l
+	s.w += wi
+	s.w2 += wi * wi
+}
+
 func (s *rowSums) add(o rowSums) {
 	s.wl += o.wl
 	s.wl2 += o.wl2
