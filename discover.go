@@ -80,6 +80,9 @@ type run struct {
 	folds *cv.Folds
 	total *lasso.Moments
 	held  []*lasso.Moments
+	// heldRows gives the rows behind held, for the paired rule's per-row
+	// pairs on Gaussian nodes.
+	heldRows *cv.HeldRows
 
 	// Standard deviations of design columns over baseRows, formed once.
 	sdOnce []sync.Once
@@ -169,6 +172,10 @@ func (r *run) sharedMoments(ctx context.Context, n int) error {
 		if err := r.total.Add(m); err != nil {
 			return err
 		}
+	}
+	r.heldRows = &cv.HeldRows{Columns: r.cols, Held: make([][]int, r.folds.K)}
+	for k := range r.heldRows.Held {
+		r.heldRows.Held[k] = r.folds.Held(k, r.baseRows)
 	}
 	return nil
 }

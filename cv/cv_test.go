@@ -89,7 +89,7 @@ func TestAgainstLassoCV(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	r, err := cv.FitMoments(context.Background(), total, held, 10, []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, s)
+	r, err := cv.FitMoments(context.Background(), total, held, nil, 10, []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, s)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -423,8 +423,9 @@ func TestRules(t *testing.T) {
 }
 
 // TestPairedDifference checks the paired-difference rule on the diabetes
-// data (Efron et al. 2004, as above) against its definition worked from
-// the returned curve and fold values: PairSE is the SD (K−1) over the folds
+// data (Efron et al. 2004, as above), fitted from moments without the rows
+// behind them, against its definition worked from the returned curve and
+// fold values: PairSE is the SD (K−1) over the folds
 // of each fold's loss minus its loss at the best penalty, over √K (common
 // practice for a paired comparison), and the choice is the largest penalty
 // whose mean exceeds the best by at most PairedMargin of them. Under
@@ -436,7 +437,8 @@ func TestPairedDifference(t *testing.T) {
 	if got, err := cv.ParseRule("paired"); err != nil || got != cv.PairedDifference || got.String() != "paired" || !got.Paired() || cv.OneStandardError.Paired() {
 		t.Errorf("ParseRule(paired) = %v, %v", got, err)
 	}
-	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds, &cv.Settings{Rule: cv.PairedDifference, WholePath: true})
+	total, held := foldMoments(t, x, y, folds)
+	r, err := cv.FitMoments(context.Background(), total, held, nil, 10, []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, &cv.Settings{Rule: cv.PairedDifference})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -471,56 +473,76 @@ func TestPairedDifference(t *testing.T) {
 	}
 }
 
-// TestPairSEPerRow checks Point.PairSE of a binomial path against its
-// definition worked from the returned fold paths: each held-out row's
-// deviance at a penalty minus its deviance at the best penalty, pooled
-// over the folds, their SD over √(n−1) (common practice for a paired
-// comparison), on the breast cancer data (Wolberg et al.; scikit-learn's
-// copy) with stratified folds.
+// TestPairSEPerRow checks Point.PairSE against its definition worked from
+// the returned fold paths: each held-out row's loss at a penalty minus its
+// loss at the best penalty, pooled over the folds, their SD over √(n−1)
+// (common practice for a paired comparison), at every penalty up to the
+// best and 0 past it. A binomial path on the breast cancer data (Wolberg
+// et al.; scikit-learn's copy) with stratified folds, and a Gaussian one on
+// the diabetes data (Efron et al. 2004), which Fit solves from moments and
+// pairs from the rows behind them.
 func TestPairSEPerRow(t *testing.T) {
-	tab, err := opendata.ReadCSV("breast_cancer.csv")
+	cancer, err := opendata.ReadCSV("breast_cancer.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
-	y := tab.Column("benign")
-	x := opendata.UnitNorm(tab.Columns[:10])
-	folds, err := cv.Stratified(y, 10, 5)
+	cy := cancer.Column("benign")
+	cfolds, err := cv.Stratified(cy, 10, 5)
 	if err != nil {
 		t.Fatal(err)
 	}
-	r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, folds,
-		&cv.Settings{Path: lasso.Settings{Family: lasso.Binomial{}}, Rule: cv.PairedDifference})
-	if err != nil {
-		t.Fatal(err)
-	}
-	loss := func(p *lasso.Path, k, i int) float64 {
-		b0, b := p.Dense(k)
-		eta := b0
-		for t, j := range p.Predictors {
-			eta += b[t] * x[j][i]
-		}
-		return lasso.Binomial{}.Deviance(y[i], lasso.Binomial{}.Mean(eta))
-	}
-	for k := range r.Curve {
-		var n, s, s2 float64
-		for f, p := range r.FoldPaths {
-			_, held := folds.Split(f, nil)
-			for _, i := range held {
-				d := loss(p, k, i) - loss(p, r.Best, i)
-				n, s, s2 = n+1, s+d, s2+d*d
+	dx, dy, dfolds := diabetesFolds(t)
+	for _, tc := range []struct {
+		name  string
+		x     [][]float64
+		y     []float64
+		folds *cv.Folds
+		fam   lasso.Family
+	}{
+		{"breast cancer, binomial", opendata.UnitNorm(cancer.Columns[:10]), cy, cfolds, lasso.Binomial{}},
+		{"diabetes, Gaussian from moments", dx, dy, dfolds, lasso.Gaussian{}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			x, y := tc.x, tc.y
+			r, err := cv.Fit(context.Background(), lasso.Data{Columns: x, Response: y}, tc.folds,
+				&cv.Settings{Path: lasso.Settings{Family: tc.fam}, Rule: cv.PairedDifference})
+			if err != nil {
+				t.Fatal(err)
 			}
-		}
-		m := s / n
-		want := math.Sqrt(math.Max(s2/n-m*m, 0) / (n - 1))
-		if got := r.Curve[k].PairSE; math.Abs(got-want) > 1e-9*(want+1e-12) {
-			t.Fatalf("point %d: PairSE %g, want %g", k, got, want)
-		}
-	}
-	if r.Margin != cv.PairedMargin {
-		t.Errorf("per-row pairs: margin %g, want %g", r.Margin, cv.PairedMargin)
-	}
-	if r.Selected > r.Best || r.Curve[r.Selected].Mean-r.Curve[r.Best].Mean > cv.PairedMargin*r.Curve[r.Selected].PairSE {
-		t.Errorf("selected %d beyond its reach (best %d)", r.Selected, r.Best)
+			loss := func(p *lasso.Path, k, i int) float64 {
+				b0, b := p.Dense(k)
+				eta := b0
+				for t, j := range p.Predictors {
+					eta += b[t] * x[j][i]
+				}
+				return tc.fam.Deviance(y[i], tc.fam.Mean(eta))
+			}
+			for k := range r.Curve {
+				want := 0.0
+				if k <= r.Best {
+					var n, s, s2 float64
+					for f := range tc.folds.K {
+						p := r.FoldPath(f)
+						_, held := tc.folds.Split(f, nil)
+						for _, i := range held {
+							d := loss(p, k, i) - loss(p, r.Best, i)
+							n, s, s2 = n+1, s+d, s2+d*d
+						}
+					}
+					m := s / n
+					want = math.Sqrt(math.Max(s2/n-m*m, 0) / (n - 1))
+				}
+				if got := r.Curve[k].PairSE; math.Abs(got-want) > 1e-9*(want+1e-12) {
+					t.Fatalf("point %d (best %d): PairSE %g, want %g", k, r.Best, got, want)
+				}
+			}
+			if r.Margin != cv.PairedMargin {
+				t.Errorf("per-row pairs: margin %g, want %g", r.Margin, cv.PairedMargin)
+			}
+			if r.Selected > r.Best || r.Curve[r.Selected].Mean-r.Curve[r.Best].Mean > cv.PairedMargin*r.Curve[r.Selected].PairSE {
+				t.Errorf("selected %d beyond its reach (best %d)", r.Selected, r.Best)
+			}
+		})
 	}
 }
 
@@ -539,4 +561,56 @@ func diabetesFolds(t *testing.T) (x [][]float64, y []float64, folds *cv.Folds) {
 		t.Fatal(err)
 	}
 	return x, tab.Columns[10], folds
+}
+
+// foldMoments returns the moments of x's columns and y (the last variable)
+// over every row and over each fold's held-out rows.
+func foldMoments(t *testing.T, x [][]float64, y []float64, folds *cv.Folds) (*lasso.Moments, []*lasso.Moments) {
+	t.Helper()
+	cols := append(append([][]float64{}, x...), y)
+	shift := lasso.ColumnMeans(cols, nil, nil)
+	total := lasso.NewMoments(shift)
+	if err := total.Accumulate(cols, nil, nil); err != nil {
+		t.Fatal(err)
+	}
+	held := make([]*lasso.Moments, folds.K)
+	for f := range held {
+		held[f] = lasso.NewMoments(shift)
+		if err := held[f].Accumulate(cols, nil, folds.Held(f, nil)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return total, held
+}
+
+// TestHeldRowsChecked checks that FitMoments refuses rows that cannot be
+// those behind its moments, naming what does not fit.
+func TestHeldRowsChecked(t *testing.T) {
+	x, y, folds := diabetesFolds(t)
+	total, held := foldMoments(t, x, y, folds)
+	cols := append(append([][]float64{}, x...), y)
+	good := make([][]int, folds.K)
+	for f := range good {
+		good[f] = folds.Held(f, nil)
+	}
+	pred := []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}
+	for _, tc := range []struct {
+		name string
+		rows cv.HeldRows
+		want string
+	}{
+		{"too few folds", cv.HeldRows{Columns: cols, Held: good[:9]}, "held-out rows of 9 folds for moments of 10"},
+		{"too few columns", cv.HeldRows{Columns: cols[:10], Held: good}, "variable 10 of the moments has no column among 10"},
+		{"short column", cv.HeldRows{Columns: append(append([][]float64{}, x[:9]...), x[9][:400], y), Held: good}, "column 9 has 400 rows"},
+		{"row out of range", cv.HeldRows{Columns: cols, Held: append([][]int{{0, 442}}, good[1:]...)}, "fold 0 holds row 442 of 442"},
+		{"weights", cv.HeldRows{Columns: cols, Weights: make([]float64, 3), Held: good}, "3 weights for 442 rows"},
+	} {
+		_, err := cv.FitMoments(context.Background(), total, held, &tc.rows, 10, pred, &cv.Settings{Rule: cv.PairedDifference})
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: error %v, want one saying %q", tc.name, err, tc.want)
+		}
+	}
+	if _, err := cv.FitMoments(context.Background(), total, held, &cv.HeldRows{Columns: cols, Held: good}, 10, pred, &cv.Settings{Rule: cv.PairedDifference}); err != nil {
+		t.Error(err)
+	}
 }

@@ -21,8 +21,8 @@
 // paired-difference rule (PairedDifference): the largest penalty whose mean
 // exceeds the best by at most PairedMargin standard errors of that
 // difference, from the held-out rows' paired losses (each row's loss at the
-// penalty minus its loss at the best penalty; the folds' paired values under
-// FitMoments and for AUC), so that the yardstick is the noise of the
+// penalty minus its loss at the best penalty; the folds' paired values for
+// AUC, and under FitMoments when it is not given the rows), so that the yardstick is the noise of the
 // comparison rather than how well the best mean is known. For AUC larger is
 // better and the rules are mirrored.
 //
@@ -38,7 +38,9 @@
 // FitMoments does the same for Gaussian responses from moments alone (see
 // lasso.Moments): training sets are totals minus held-out folds and the
 // held-out squared error is a quadratic form, so after one pass over the
-// data nothing depends on the number of rows.
+// data nothing depends on the number of rows, except the paired rule's
+// per-row pairs (HeldRows), a pass over the held-out rows at each penalty
+// from the strongest to the best.
 //
 // Folds run in parallel on a bounded number of goroutines and the result is
 // the same for any number of workers. A cancelled context stops the work

@@ -73,8 +73,8 @@ type Result struct {
 	// one-standard-error rule; Selected the index chosen by Rule.
 	Best, OneSE, Selected int
 	// Margin is how many standard errors Rule allowed: Rule.StandardErrors(),
-	// except under PairedDifference when the pairs are the folds' (see
-	// Point.PairSE), where the standard error rests on K−1 degrees of
+	// except under PairedDifference when the pairs are the folds' (AUC, or
+	// FitMoments without rows; see Point.PairSE), where the standard error rests on K−1 degrees of
 	// freedom and the margin is the Student t quantile of the same
 	// one-sided level as PairedMargin's normal one (1.649 for ten folds).
 	Margin float64
@@ -86,9 +86,9 @@ type Result struct {
 	// losses (nil when the measure is not a mean of per-row losses or the
 	// rows' predictions were not formed).
 	rows [][]rowSums
-	// pairRows, when set, returns for every penalty the sums of
-	// the held-out rows' losses there minus their losses at best, pooled
-	// over the folds (see Point.PairSE).
+	// pairRows, when set, returns for every penalty up to best the sums
+	// of the held-out rows' losses there minus their losses at best,
+	// pooled over the folds (see Point.PairSE).
 	pairRows func(best int) []rowSums
 }
 
@@ -229,7 +229,7 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 	r.paths = r.FoldPaths
 	if c.Measure.perRow() {
 		r.pairRows = func(best int) []rowSums {
-			out := make([]rowSums, stop)
+			out := make([]rowSums, best+1)
 			for _, fp := range folder {
 				fp.(*foldWalk).pairSums(best, out)
 			}
@@ -240,10 +240,10 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 	return r, nil
 }
 
-// pairSums adds to out[k], for every penalty index k of out, the sums of
-// this fold's held-out rows' losses at k minus their losses at best.
-// Rows whose loss is infinite at either are left out, as sumRows leaves
-// them out of the curve.
+// pairSums adds to out[k], for every penalty index k of out (those up to
+// best), the sums of this fold's held-out rows' losses at k minus their
+// losses at best. Rows whose loss is infinite at either are left out, as
+// sumRows leaves them out of the curve.
 func (fw *foldWalk) pairSums(best int, out []rowSums) {
 	path := fw.stepper.Path()
 	at := func(k int) { fw.ho.meanTo(fw.mu, path, min(k, path.Len()-1)) }
@@ -556,7 +556,7 @@ func fitViaMoments(ctx context.Context, d lasso.Data, held [][]int, s *Settings)
 	for j := range local {
 		local[j] = j
 	}
-	r, err := FitMoments(ctx, total, fm, len(pred), local, s)
+	r, err := FitMoments(ctx, total, fm, &HeldRows{Columns: cols, Weights: d.Weights, Held: held}, len(pred), local, s)
 	if err != nil {
 		return nil, err
 	}

@@ -15,7 +15,12 @@ import (
 // held[f], so no step touches the rows: one pass over the data (forming
 // the moments) serves every response, predictor set, fold and penalty.
 // The measure must be Deviance or MeanSquaredError.
-func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments, response int, predictors []int, s *Settings) (*Result, error) {
+//
+// rows, when not nil, gives the rows behind the moments; the
+// PairedDifference rule then pairs the held-out rows' own losses (see
+// Point.PairSE), a pass over the held-out rows at each penalty from the
+// strongest to the best. Without rows it pairs the folds' values.
+func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments, rows *HeldRows, response int, predictors []int, s *Settings) (*Result, error) {
 	c, fam, err := resolveSettings(s)
 	if err != nil {
 		return nil, err
@@ -39,6 +44,11 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 	}
 	if err := checkFoldScales(&c, len(held)); err != nil {
 		return nil, err
+	}
+	if rows != nil {
+		if err := rows.check(len(held), response, predictors); err != nil {
+			return nil, err
+		}
 	}
 	full, err := lasso.StartMoments(ctx, total, response, predictors, &c.Path)
 	if err != nil {
@@ -67,6 +77,11 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 	for f, fp := range folder {
 		r.FoldValues[f] = fp.scores()[:stop]
 		r.paths[f] = fp.path().Path()
+	}
+	if rows != nil {
+		r.pairRows = func(best int) []rowSums {
+			return rows.pairSums(r.paths, c.Measure, response, predictors, best)
+		}
 	}
 	r.finish(r.Full.Penalties, r.Full.NonZero)
 	return r, nil
@@ -127,4 +142,89 @@ func heldOutMSE(m *lasso.Moments, y int, pred []int, b0 float64, b []float64) fl
 	}
 	sse := quad + 2*c*sy + m.Weight*c*c
 	return math.Max(sse, 0) / m.Weight
+}
+
+// HeldRows gives FitMoments the rows behind its moments, so that the
+// paired-difference rule can pair the held-out rows' own losses.
+type HeldRows struct {
+	// Columns holds the values of the moments' variables: Columns[v] for
+	// variable v, indexed by row.
+	Columns [][]float64
+	// Weights holds the rows' weights, as in the moments (nil: 1).
+	Weights []float64
+	// Held holds the held-out rows of each fold, as in the moments.
+	Held [][]int
+}
+
+// check reports rows that cannot serve folds held-out moments for the
+// response and predictors given.
+func (h *HeldRows) check(folds, response int, predictors []int) error {
+	if len(h.Held) != folds {
+		return fmt.Errorf("%w: held-out rows of %d folds for moments of %d", ErrFolds, len(h.Held), folds)
+	}
+	vars := append([]int{response}, predictors...)
+	n := -1
+	for _, v := range vars {
+		if v < 0 || v >= len(h.Columns) {
+			return fmt.Errorf("%w: variable %d of the moments has no column among %d", ErrLength, v, len(h.Columns))
+		}
+		if n >= 0 && len(h.Columns[v]) != n {
+			return fmt.Errorf("%w: column %d has %d rows, column %d %d", ErrLength, v, len(h.Columns[v]), response, n)
+		}
+		n = len(h.Columns[v])
+	}
+	if h.Weights != nil && len(h.Weights) != n {
+		return fmt.Errorf("%w: %d weights for %d rows", ErrLength, len(h.Weights), n)
+	}
+	for f, rows := range h.Held {
+		for _, i := range rows {
+			if i < 0 || i >= n {
+				return fmt.Errorf("%w: fold %d holds row %d of %d", ErrLength, f, i, n)
+			}
+		}
+	}
+	return nil
+}
+
+// pairSums returns, for every penalty index k up to best, the sums of the
+// held-out rows' losses at k minus their losses at best, pooled over the
+// folds' paths. Predictions are formed column by column over the non-zero
+// coefficients, which are few on that side of the best penalty.
+func (h *HeldRows) pairSums(paths []*lasso.Path, m Measure, response int, predictors []int, best int) []rowSums {
+	out := make([]rowSums, best+1)
+	b := make([]float64, len(predictors))
+	y := h.Columns[response]
+	for f, path := range paths {
+		rows := h.Held[f]
+		mu := make([]float64, len(rows))
+		predict := func(k int) {
+			b0 := path.CoefficientsTo(b, min(k, path.Len()-1))
+			for i := range mu {
+				mu[i] = b0
+			}
+			for t, x := range b {
+				if x == 0 {
+					continue
+				}
+				c := h.Columns[predictors[t]]
+				for i, r := range rows {
+					mu[i] += x * c[r]
+				}
+			}
+		}
+		predict(best)
+		base := make([]float64, len(rows))
+		for i, r := range rows {
+			base[i] = m.rowLoss(lasso.Gaussian{}, y[r], mu[i])
+		}
+		for k := range out {
+			predict(k)
+			var s rowSums
+			for i, r := range rows {
+				s.addRow(h.Weights, r, m.rowLoss(lasso.Gaussian{}, y[r], mu[i])-base[i])
+			}
+			out[k].add(s)
+		}
+	}
+	return out
 }

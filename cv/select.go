@@ -159,14 +159,16 @@ type Point struct {
 	SE float64
 	// PairSE is the standard error of Mean minus the best point's Mean,
 	// from paired differences. When the measure is a mean of per-row
-	// losses and the rows' predictions are formed (Fit), they are the
-	// held-out rows' own: each row's loss here minus its loss at the best
-	// point, their weighted SD over √(n−1) as for SE. Otherwise (AUC,
-	// FitMoments) they are the folds': the SD (K−1) over the folds of each
-	// fold's value here minus its value at the best point, over √K. It is
-	// 0 at the best point. It is formed only under PairedDifference (the
-	// rows' pairs cost a second pass over the held-out predictions) and
-	// left at 0 otherwise.
+	// losses and the rows are at hand (Fit, and FitMoments given rows),
+	// they are the held-out rows' own: each row's loss here minus its loss
+	// at the best point, their weighted SD over √(n−1) as for SE, formed
+	// for the penalties from the strongest to the best (the only ones the
+	// rule reads) and left at 0 past the best. Otherwise (AUC, FitMoments
+	// without rows) they are the folds': the SD (K−1) over the folds of
+	// each fold's value here minus its value at the best point, over √K,
+	// at every penalty. It is 0 at the best point. It is formed only under
+	// PairedDifference (the rows' pairs cost a second pass over the
+	// held-out predictions) and left at 0 otherwise.
 	PairSE  float64
 	NonZero int // non-zero coefficients of the full-data fit
 }
