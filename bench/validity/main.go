@@ -454,6 +454,7 @@ func printTail(w io.Writer, recs []record, notes []string) {
 			calib[kind] = c
 		}
 	}
+	printMatched(w, recs)
 	if len(notes) > 0 {
 		fmt.Fprintln(w)
 		for _, n := range notes {
@@ -485,6 +486,96 @@ func printTail(w io.Writer, recs []record, notes []string) {
 			fmt.Fprintf(w, " %.3f (%d) |", float64(c[0])/float64(c[1]), c[1])
 		}
 		fmt.Fprintln(w)
+	}
+}
+
+// matchedPair is a binary setting's outcomes under one procedure beside
+// those of the continuous setting of the same signal.
+type matchedPair struct {
+	setting, procedure string
+	binary, continuous []outcome
+}
+
+// matchedPairs pairs every binary setting of recs with the continuous
+// setting of the same sizes and signal under the same procedure (the
+// matched suite's "continuous …, weights … to match binary" settings, or,
+// without edges, the continuous setting of the same sizes).
+func matchedPairs(recs []record) []matchedPair {
+	type key struct{ setting, procedure string }
+	cont := map[key][]outcome{}
+	for _, rs := range groups(recs) {
+		if rs[0].Kind == "continuous" {
+			base, _, _ := strings.Cut(rs[0].Setting, ",")
+			cont[key{strings.TrimPrefix(base, "continuous "), rs[0].Procedure}] = outcomes(rs)
+		}
+	}
+	var out []matchedPair
+	for _, rs := range groups(recs) {
+		if rs[0].Kind != "binary" {
+			continue
+		}
+		k := key{strings.TrimPrefix(rs[0].Setting, "binary "), rs[0].Procedure}
+		if c := cont[k]; c != nil {
+			out = append(out, matchedPair{setting: k.setting, procedure: k.procedure, binary: outcomes(rs), continuous: c})
+		}
+	}
+	return out
+}
+
+// printMatched prints, for every binary setting of recs with a continuous
+// one of the same signal beside it, the differences binary − continuous
+// of the false parents per fitted child and of F1, as means over the
+// networks ± the standard error of the difference (the two settings'
+// networks are drawn independently, so their standard errors add in
+// quadrature: common practice).
+func printMatched(w io.Writer, recs []record) {
+	pairs := matchedPairs(recs)
+	if len(pairs) == 0 {
+		return
+	}
+	fmt.Fprint(w, "\nBinary against continuous networks of the same signal (differences binary − continuous, means over networks ± standard error; \"more\" marks a difference above two standard errors).\n\n")
+	fmt.Fprintln(w, "| setting | procedure | false parents per child: binary / continuous | difference | F1: binary / continuous | difference |")
+	fmt.Fprintln(w, "|---|---|---|---|---|---|")
+	perChild := func(os []outcome, binary bool) []float64 {
+		xs := make([]float64, len(os))
+		for i, o := range os {
+			xs[i] = float64(o.falseContinuous) / float64(o.contNode)
+			if binary {
+				xs[i] = float64(o.falseBinary) / float64(o.binaryNodes)
+			}
+		}
+		return xs
+	}
+	f1 := func(os []outcome) []float64 {
+		xs := make([]float64, len(os))
+		for i, o := range os {
+			xs[i] = o.f1
+		}
+		return xs
+	}
+	diff := func(a, b []float64, larger bool) (string, string) {
+		ma, sa := meanSE(a)
+		mb, sb := meanSE(b)
+		if math.IsNaN(ma) || math.IsNaN(mb) {
+			return "–", "–"
+		}
+		d, se := ma-mb, math.Hypot(sa, sb)
+		mark := ""
+		if (larger && d > 2*se) || (!larger && d < -2*se) {
+			mark = " (more)"
+			if !larger {
+				mark = " (less)"
+			}
+		}
+		return fmt.Sprintf("%.3f / %.3f", ma, mb), fmt.Sprintf("%+.3f ± %.3f%s", d, se, mark)
+	}
+	for _, p := range pairs {
+		fp, fpd := diff(perChild(p.binary, true), perChild(p.continuous, false), true)
+		f, fd := diff(f1(p.binary), f1(p.continuous), false)
+		if p.binary[0].recall != p.binary[0].recall && p.continuous[0].recall != p.continuous[0].recall {
+			f, fd = "–", "–" // no true edges: F1 says nothing
+		}
+		fmt.Fprintf(w, "| %s | %s | %s | %s | %s | %s |\n", p.setting, p.procedure, fp, fpd, f, fd)
 	}
 }
 

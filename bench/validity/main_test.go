@@ -93,3 +93,39 @@ func TestRecordsRoundTrip(t *testing.T) {
 		t.Errorf("table:\n%s", sb.String())
 	}
 }
+
+// TestMatched checks the binary-against-continuous table: settings paired
+// by sizes and signal under the same procedure, the false parents per
+// child and F1 as means over networks, and the difference's standard error
+// (the two standard errors in quadrature), worked by hand.
+func TestMatched(t *testing.T) {
+	bin := func(seed, falseParents int, f1 float64) record {
+		return record{Setting: "binary n=10 p=5 2 parents weak", Kind: "binary", Procedure: "rule", Seed: seed,
+			outcome: outcome{falseBinary: falseParents, binaryNodes: 4, f1: f1, recall: 0.5}}
+	}
+	cont := func(seed, falseParents int, f1 float64) record {
+		return record{Setting: "continuous n=10 p=5 2 parents weak, weights ×0.200 to match binary", Kind: "continuous", Procedure: "rule", Seed: seed,
+			outcome: outcome{falseContinuous: falseParents, contNode: 4, f1: f1, recall: 0.5}}
+	}
+	recs := []record{
+		bin(1, 0, 0.5), bin(2, 2, 0.7), cont(1, 0, 0.4), cont(2, 0, 0.4),
+		// No partner: another procedure, and a setting of other sizes.
+		{Setting: "binary n=10 p=5 2 parents weak", Kind: "binary", Procedure: "other", Seed: 1, outcome: outcome{binaryNodes: 4}},
+		{Setting: "continuous n=20 p=5 2 parents weak", Kind: "continuous", Procedure: "rule", Seed: 1, outcome: outcome{contNode: 4}},
+	}
+	pairs := matchedPairs(recs)
+	if len(pairs) != 1 || pairs[0].setting != "n=10 p=5 2 parents weak" || pairs[0].procedure != "rule" ||
+		len(pairs[0].binary) != 2 || len(pairs[0].continuous) != 2 {
+		t.Fatalf("pairs %+v", pairs)
+	}
+	var b strings.Builder
+	printMatched(&b, recs)
+	// False parents per child: binary 0 and 0.5, mean 0.25, SE 0.25;
+	// continuous 0, SE 0; difference +0.25 ± 0.25. F1: binary 0.6 ± 0.1,
+	// continuous 0.4 ± 0: +0.2 ± 0.1, two standard errors exactly (not
+	// marked).
+	want := "| n=10 p=5 2 parents weak | rule | 0.250 / 0.000 | +0.250 ± 0.250 | 0.600 / 0.400 | +0.200 ± 0.100 |"
+	if !strings.Contains(b.String(), want) {
+		t.Errorf("table\n%s\nwant the row\n%s", b.String(), want)
+	}
+}
