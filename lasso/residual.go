@@ -139,7 +139,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			e.ones[j] = nil
 			continue
 		}
-		m, ss, bin := e.columnMoments(c, j, r.intercept)
+		m, ss, bin, count := e.columnMoments(c, r.intercept)
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
 			e.excl[j] = true
 			e.scale[j] = 1
@@ -153,13 +153,16 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		}
 		e.spreads[j] = math.Sqrt(ss) / e.scale[j]
 		e.isBin[j] = bin
-		if bin && r.intercept && 2*len(e.ones[j]) > n {
+		switch {
+		case bin && r.intercept && 2*count > n:
 			// Mostly ones: work with 1 − x, whose ones are fewer; the
 			// intercept absorbs the constant and toOriginal turns the
 			// coefficient back.
 			e.flip[j] = true
 			e.center[j] = 1 - m
-			e.ones[j] = e.zerosOf(c, len(e.ones[j]))
+			e.ones[j] = e.positions(c, 0, n-count)
+		case bin:
+			e.ones[j] = e.positions(c, 1, count)
 		}
 	}
 	if r.intercept {
@@ -193,32 +196,28 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	return e, nil
 }
 
-// columnMoments returns, in one pass over the fitted rows of column c
-// (predictor j), its weighted mean (0 without an intercept), its weighted
-// sum of squares about that, and whether it holds only 0 and 1, in which
-// case e.ones[j] lists the positions of its ones. Sums are taken about the
-// first value, so that a large mean costs no precision.
-func (e *residualEngine) columnMoments(c []float64, j int, intercept bool) (m, ss float64, bin bool) {
+// columnMoments returns, in one pass over the fitted rows of column c, its
+// weighted mean (0 without an intercept), its weighted sum of squares about
+// that, whether it holds only 0 and 1, and then its number of ones. Sums are taken about the first value, so that a large
+// mean costs no precision.
+func (e *residualEngine) columnMoments(c []float64, intercept bool) (m, ss float64, bin bool, ones int) {
 	n := e.n
 	if n == 0 {
-		return 0, 0, false
+		return 0, 0, false, 0
 	}
 	sh := c[e.row(0)]
 	var s1, s2 float64
 	bin = n < math.MaxInt32
-	var ones []int32
 	omega := e.omega[:n]
 	visit := func(t int, x float64) {
 		dx := x - sh
 		w := omega[t]
 		s1 += w * dx
 		s2 += w * dx * dx
-		if bin {
-			if x == 1 {
-				ones = append(ones, int32(t))
-			} else if x != 0 {
-				bin = false
-			}
+		if x == 1 {
+			ones++
+		} else if x != 0 {
+			bin = false
 		}
 	}
 	if e.rows == nil {
@@ -240,10 +239,7 @@ func (e *residualEngine) columnMoments(c []float64, j int, intercept bool) (m, s
 	if ss < 0 {
 		ss = 0
 	}
-	if bin {
-		e.ones[j] = ones
-	}
-	return m, ss, bin
+	return m, ss, bin, ones
 }
 
 func (e *residualEngine) row(t int) int {
@@ -718,16 +714,27 @@ func (e *residualEngine) toOriginal(b []float64) float64 {
 	return b0
 }
 
-// zerosOf lists the positions of the zeros of 0/1 column c among the
-// fitted rows, given its number of ones.
-func (e *residualEngine) zerosOf(c []float64, ones int) []int32 {
-	zeros := make([]int32, 0, e.n-ones)
-	for t := range e.n {
-		if c[e.row(t)] == 0 {
-			zeros = append(zeros, int32(t))
+// positions lists the positions among the fitted rows where 0/1 column c
+// holds value, of which there are count: a second pass over the column, so
+// that the list is allocated at its exact size (a list grown by appending
+// holds up to twice its length, and a node's eleven fits hold one per 0/1
+// predictor each).
+func (e *residualEngine) positions(c []float64, value float64, count int) []int32 {
+	out := make([]int32, 0, count)
+	if e.rows == nil {
+		for t, x := range c[:e.n] {
+			if x == value {
+				out = append(out, int32(t))
+			}
+		}
+		return out
+	}
+	for t, i := range e.rows {
+		if c[i] == value {
+			out = append(out, int32(t))
 		}
 	}
-	return zeros
+	return out
 }
 
 func (e *residualEngine) deviance() float64 {
