@@ -81,7 +81,7 @@ type run struct {
 	total *lasso.Moments
 	held  []*lasso.Moments
 	// heldRows gives the rows behind held, for the paired rule's per-row
-	// pairs on Gaussian nodes.
+	// pairs on Gaussian nodes (nil under the other rules).
 	heldRows *cv.HeldRows
 
 	// Standard deviations of design columns over baseRows, formed once.
@@ -173,9 +173,11 @@ func (r *run) sharedMoments(ctx context.Context, n int) error {
 			return err
 		}
 	}
-	r.heldRows = &cv.HeldRows{Columns: r.cols, Held: make([][]int, r.folds.K)}
-	for k := range r.heldRows.Held {
-		r.heldRows.Held[k] = r.folds.Held(k, r.baseRows)
+	if r.cfg.CV.Rule.Paired() {
+		r.heldRows = &cv.HeldRows{Columns: r.cols, Held: make([][]int, r.folds.K)}
+		for k := range r.heldRows.Held {
+			r.heldRows.Held[k] = r.folds.Held(k, r.baseRows)
+		}
 	}
 	return nil
 }

@@ -145,7 +145,10 @@ type CurvePoint struct {
 	SE      Number `json:"se"`
 	// PairSE is the standard error of Mean minus the best point's Mean,
 	// from paired differences (cv.Point.PairSE); the paired-difference
-	// rule reads it, and it is formed (and written) only under that rule.
+	// rule reads it, and it is formed (and written) only under that rule:
+	// from the strongest penalty to the best when the rows are paired
+	// (absent past the best, and at the best, where it is 0), at every
+	// penalty but the best when the folds are (AUC).
 	PairSE  Number `json:"pair_se,omitempty"`
 	NonZero int    `json:"nonzero"`
 }

@@ -55,11 +55,7 @@ func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows 
 	}
 	out := cvOut{rows: rows, cols: cols, owner: owner, scale: scale}
 	if r.total != nil && p.role == gaussian && s.Measure != cv.MeanAbsoluteError {
-		var rows *cv.HeldRows
-		if s.Rule.Paired() {
-			rows = r.heldRows
-		}
-		res, err := cv.FitMoments(ctx, r.total, r.held, rows, r.d.Terms(p.v)[0], cols, &s)
+		res, err := cv.FitMoments(ctx, r.total, r.held, r.heldRows, r.d.Terms(p.v)[0], cols, &s)
 		out.res, out.folds = res, r.folds
 		return out, err
 	}

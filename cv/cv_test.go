@@ -604,6 +604,8 @@ func TestHeldRowsChecked(t *testing.T) {
 		{"short column", cv.HeldRows{Columns: append(append([][]float64{}, x[:9]...), x[9][:400], y), Held: good}, "column 9 has 400 rows"},
 		{"row out of range", cv.HeldRows{Columns: cols, Held: append([][]int{{0, 442}}, good[1:]...)}, "fold 0 holds row 442 of 442"},
 		{"weights", cv.HeldRows{Columns: cols, Weights: make([]float64, 3), Held: good}, "3 weights for 442 rows"},
+		{"other rows", cv.HeldRows{Columns: cols, Held: append([][]int{good[0][1:]}, good[1:]...)}, "fold 0's held-out rows weigh"},
+		{"weights the moments lack", cv.HeldRows{Columns: cols, Weights: twos(442), Held: good}, "its moments"},
 	} {
 		_, err := cv.FitMoments(context.Background(), total, held, &tc.rows, 10, pred, &cv.Settings{Rule: cv.PairedDifference})
 		if err == nil || !strings.Contains(err.Error(), tc.want) {
@@ -613,4 +615,12 @@ func TestHeldRowsChecked(t *testing.T) {
 	if _, err := cv.FitMoments(context.Background(), total, held, &cv.HeldRows{Columns: cols, Held: good}, 10, pred, &cv.Settings{Rule: cv.PairedDifference}); err != nil {
 		t.Error(err)
 	}
+}
+
+func twos(n int) []float64 {
+	w := make([]float64, n)
+	for i := range w {
+		w[i] = 2
+	}
+	return w
 }

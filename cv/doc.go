@@ -22,9 +22,9 @@
 // exceeds the best by at most PairedMargin standard errors of that
 // difference, from the held-out rows' paired losses (each row's loss at the
 // penalty minus its loss at the best penalty; the folds' paired values for
-// AUC, and under FitMoments when it is not given the rows), so that the yardstick is the noise of the
-// comparison rather than how well the best mean is known. For AUC larger is
-// better and the rules are mirrored.
+// AUC, and under FitMoments when it is not given the rows), so that the
+// yardstick is the noise of the comparison rather than how well the best
+// mean is known. For AUC larger is better and the rules are mirrored.
 //
 // The full-data path and the folds' paths are fitted in step, in blocks
 // of ten penalties, and all stop once the mean held-out loss has risen at

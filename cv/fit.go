@@ -74,9 +74,10 @@ type Result struct {
 	Best, OneSE, Selected int
 	// Margin is how many standard errors Rule allowed: Rule.StandardErrors(),
 	// except under PairedDifference when the pairs are the folds' (AUC, or
-	// FitMoments without rows; see Point.PairSE), where the standard error rests on K−1 degrees of
-	// freedom and the margin is the Student t quantile of the same
-	// one-sided level as PairedMargin's normal one (1.649 for ten folds).
+	// FitMoments without rows; see Point.PairSE), where the standard error
+	// rests on K−1 degrees of freedom and the margin is the Student t quantile
+	// of the same one-sided level as PairedMargin's normal one (1.649 for ten
+	// folds).
 	Margin float64
 
 	// paths holds each fold's training path, whichever way it was fitted.

@@ -46,7 +46,7 @@ func FitMoments(ctx context.Context, total *lasso.Moments, held []*lasso.Moments
 		return nil, err
 	}
 	if rows != nil {
-		if err := rows.check(len(held), response, predictors); err != nil {
+		if err := rows.check(held, response, predictors); err != nil {
 			return nil, err
 		}
 	}
@@ -156,11 +156,12 @@ type HeldRows struct {
 	Held [][]int
 }
 
-// check reports rows that cannot serve folds held-out moments for the
-// response and predictors given.
-func (h *HeldRows) check(folds, response int, predictors []int) error {
-	if len(h.Held) != folds {
-		return fmt.Errorf("%w: held-out rows of %d folds for moments of %d", ErrFolds, len(h.Held), folds)
+// check reports rows that cannot be those behind the folds' held-out
+// moments held, for the response and predictors given: shapes, and each
+// fold's total weight (its number of rows when unweighted).
+func (h *HeldRows) check(held []*lasso.Moments, response int, predictors []int) error {
+	if len(h.Held) != len(held) {
+		return fmt.Errorf("%w: held-out rows of %d folds for moments of %d", ErrFolds, len(h.Held), len(held))
 	}
 	vars := append([]int{response}, predictors...)
 	n := -1
@@ -177,10 +178,19 @@ func (h *HeldRows) check(folds, response int, predictors []int) error {
 		return fmt.Errorf("%w: %d weights for %d rows", ErrLength, len(h.Weights), n)
 	}
 	for f, rows := range h.Held {
+		var w float64
 		for _, i := range rows {
 			if i < 0 || i >= n {
 				return fmt.Errorf("%w: fold %d holds row %d of %d", ErrLength, f, i, n)
 			}
+			if h.Weights == nil {
+				w++
+			} else {
+				w += h.Weights[i]
+			}
+		}
+		if math.Abs(w-held[f].Weight) > 1e-9*held[f].Weight {
+			return fmt.Errorf("%w: fold %d's held-out rows weigh %g, its moments %g: not the rows behind them", ErrFolds, f, w, held[f].Weight)
 		}
 	}
 	return nil
@@ -221,7 +231,11 @@ func (h *HeldRows) pairSums(paths []*lasso.Path, m Measure, response int, predic
 			predict(k)
 			var s rowSums
 			for i, r := range rows {
-				s.addRow(h.Weights, r, m.rowLoss(lasso.Gaussian{}, y[r], mu[i])-base[i])
+				d := m.rowLoss(lasso.Gaussian{}, y[r], mu[i]) - base[i]
+				if math.IsInf(d, 0) || math.IsNaN(d) {
+					continue // as foldWalk.pairSums leaves such rows out
+				}
+				s.addRow(h.Weights, r, d)
 			}
 			out[k].add(s)
 		}

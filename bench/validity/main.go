@@ -497,15 +497,20 @@ type matchedPair struct {
 }
 
 // matchedPairs pairs every binary setting of recs with the continuous
-// setting of the same sizes and signal under the same procedure (the
+// setting of the same sizes and signal under the same procedure: the
 // matched suite's "continuous …, weights … to match binary" settings, or,
-// without edges, the continuous setting of the same sizes).
+// without edges, the continuous setting of the same sizes. The standard
+// and dense suites' continuous settings, whose weights are not scaled, are
+// not of the same signal and are never paired.
 func matchedPairs(recs []record) []matchedPair {
 	type key struct{ setting, procedure string }
 	cont := map[key][]outcome{}
 	for _, rs := range groups(recs) {
-		if rs[0].Kind == "continuous" {
-			base, _, _ := strings.Cut(rs[0].Setting, ",")
+		name := rs[0].Setting
+		// Only settings of the same signal by construction: weights scaled
+		// to match the binary networks, or no edges at all.
+		if rs[0].Kind == "continuous" && (strings.HasSuffix(name, "to match binary") || strings.HasSuffix(name, "no edges")) {
+			base, _, _ := strings.Cut(name, ",")
 			cont[key{strings.TrimPrefix(base, "continuous "), rs[0].Procedure}] = outcomes(rs)
 		}
 	}
@@ -533,7 +538,7 @@ func printMatched(w io.Writer, recs []record) {
 	if len(pairs) == 0 {
 		return
 	}
-	fmt.Fprint(w, "\nBinary against continuous networks of the same signal (differences binary − continuous, means over networks ± standard error; \"more\" marks a difference above two standard errors).\n\n")
+	fmt.Fprint(w, "\nBinary against continuous networks of the same signal (differences binary − continuous, means over networks ± standard error; a difference beyond two standard errors either way is marked: more or fewer false parents, higher or lower F1).\n\n")
 	fmt.Fprintln(w, "| setting | procedure | false parents per child: binary / continuous | difference | F1: binary / continuous | difference |")
 	fmt.Fprintln(w, "|---|---|---|---|---|---|")
 	perChild := func(os []outcome, binary bool) []float64 {
@@ -553,26 +558,37 @@ func printMatched(w io.Writer, recs []record) {
 		}
 		return xs
 	}
-	diff := func(a, b []float64, larger bool) (string, string) {
+	diff := func(a, b []float64, up, down string) (string, string) {
 		ma, sa := meanSE(a)
 		mb, sb := meanSE(b)
 		if math.IsNaN(ma) || math.IsNaN(mb) {
 			return "–", "–"
 		}
 		d, se := ma-mb, math.Hypot(sa, sb)
+		if math.IsNaN(se) {
+			return fmt.Sprintf("%.3f / %.3f", ma, mb), fmt.Sprintf("%+.3f", d) // one network a side
+		}
 		mark := ""
-		if (larger && d > 2*se) || (!larger && d < -2*se) {
-			mark = " (more)"
-			if !larger {
-				mark = " (less)"
-			}
+		switch {
+		case d > 2*se:
+			mark = " (" + up + ")"
+		case d < -2*se:
+			mark = " (" + down + ")"
 		}
 		return fmt.Sprintf("%.3f / %.3f", ma, mb), fmt.Sprintf("%+.3f ± %.3f%s", d, se, mark)
 	}
+	noTruth := func(os []outcome) bool {
+		for _, o := range os {
+			if !math.IsNaN(o.recall) {
+				return false
+			}
+		}
+		return true
+	}
 	for _, p := range pairs {
-		fp, fpd := diff(perChild(p.binary, true), perChild(p.continuous, false), true)
-		f, fd := diff(f1(p.binary), f1(p.continuous), false)
-		if p.binary[0].recall != p.binary[0].recall && p.continuous[0].recall != p.continuous[0].recall {
+		fp, fpd := diff(perChild(p.binary, true), perChild(p.continuous, false), "more", "fewer")
+		f, fd := diff(f1(p.binary), f1(p.continuous), "higher", "lower")
+		if noTruth(p.binary) && noTruth(p.continuous) {
 			f, fd = "–", "–" // no true edges: F1 says nothing
 		}
 		fmt.Fprintf(w, "| %s | %s | %s | %s | %s | %s |\n", p.setting, p.procedure, fp, fpd, f, fd)

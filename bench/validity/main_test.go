@@ -112,6 +112,8 @@ func TestMatched(t *testing.T) {
 		// No partner: another procedure, and a setting of other sizes.
 		{Setting: "binary n=10 p=5 2 parents weak", Kind: "binary", Procedure: "other", Seed: 1, outcome: outcome{binaryNodes: 4}},
 		{Setting: "continuous n=20 p=5 2 parents weak", Kind: "continuous", Procedure: "rule", Seed: 1, outcome: outcome{contNode: 4}},
+		// Not of the same signal: the standard suite's unscaled weights.
+		{Setting: "continuous n=10 p=5 2 parents weak", Kind: "continuous", Procedure: "rule", Seed: 1, outcome: outcome{contNode: 4, falseContinuous: 4}},
 	}
 	pairs := matchedPairs(recs)
 	if len(pairs) != 1 || pairs[0].setting != "n=10 p=5 2 parents weak" || pairs[0].procedure != "rule" ||
@@ -123,7 +125,7 @@ func TestMatched(t *testing.T) {
 	// False parents per child: binary 0 and 0.5, mean 0.25, SE 0.25;
 	// continuous 0, SE 0; difference +0.25 ± 0.25. F1: binary 0.6 ± 0.1,
 	// continuous 0.4 ± 0: +0.2 ± 0.1, two standard errors exactly (not
-	// marked).
+	// marked either way).
 	want := "| n=10 p=5 2 parents weak | rule | 0.250 / 0.000 | +0.250 ± 0.250 | 0.600 / 0.400 | +0.200 ± 0.100 |"
 	if !strings.Contains(b.String(), want) {
 		t.Errorf("table\n%s\nwant the row\n%s", b.String(), want)
