@@ -717,8 +717,8 @@ func (e *residualEngine) toOriginal(b []float64) float64 {
 // positions lists the positions among the fitted rows where 0/1 column c
 // holds value, of which there are count: a second pass over the column, so
 // that the list is allocated at its exact size (a list grown by appending
-// holds up to twice its length, and a node's eleven fits hold one per 0/1
-// predictor each).
+// holds up to twice its length, and a cross-validated node's full-data and
+// fold fits each hold one per 0/1 predictor).
 func (e *residualEngine) positions(c []float64, value float64, count int) []int32 {
 	out := make([]int32, 0, count)
 	if e.rows == nil {
