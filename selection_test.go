@@ -2,6 +2,7 @@ package antecedent_test
 
 import (
 	"context"
+	"math"
 	"os"
 	"regexp"
 	"strings"
@@ -203,4 +204,57 @@ func nullFalseParents(t *testing.T, binaryShare float64, cfg *antecedent.Config)
 		}
 	}
 	return falseParents, nodes
+}
+
+// TestPairedRuleMargins checks that under the paired-difference rule
+// every node pairs its held-out rows, continuous nodes fitted from the
+// shared moments as well as binary ones (margin cv.PairedMargin), and that
+// under AUC, which is not a mean of per-row losses, binary nodes pair the
+// folds and take the Student t margin for their nine degrees of freedom
+// (cv.StudentMargin; common practice for a paired comparison).
+func TestPairedRuleMargins(t *testing.T) {
+	m, o, err := simulate.Random(simulate.RandomSettings{Variables: 10, Tiers: 3, BinaryShare: 0.5}, 4)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := m.Sample(400, 5)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, err := table.NewDataset(s.Names, s.Columns)
+	if err != nil {
+		t.Fatal(err)
+	}
+	folds := cv.StudentMargin(cv.PairedMargin, 9)
+	for _, tc := range []struct {
+		name             string
+		measure          cv.Measure
+		binary, gaussian float64
+	}{
+		{"deviance", cv.Deviance, cv.PairedMargin, cv.PairedMargin},
+		{"AUC", cv.AreaUnderCurve, folds, cv.PairedMargin},
+	} {
+		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{CV: cv.Settings{Rule: cv.PairedDifference, Measure: tc.measure}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		kinds := map[bool]int{}
+		for _, nd := range res.Nodes {
+			if !nd.Fitted {
+				continue
+			}
+			binary := nd.Family == "binomial"
+			want := tc.gaussian
+			if binary {
+				want = tc.binary
+			}
+			kinds[binary]++
+			if math.Abs(float64(nd.Margin)-want) > 1e-12 {
+				t.Errorf("%s: node %s (binary %v): margin %g, want %g", tc.name, nd.Name, binary, float64(nd.Margin), want)
+			}
+		}
+		if kinds[true] == 0 || kinds[false] == 0 {
+			t.Fatalf("%s: fitted nodes by kind %v: want both kinds", tc.name, kinds)
+		}
+	}
 }
