@@ -75,20 +75,7 @@ func TestAgainstLassoCV(t *testing.T) {
 		check(mode.String(), r)
 	}
 	// The same from moments alone.
-	cols := append(append([][]float64{}, x...), y)
-	shift := lasso.ColumnMeans(cols, nil, nil)
-	total := lasso.NewMoments(shift)
-	if err := total.Accumulate(cols, nil, nil); err != nil {
-		t.Fatal(err)
-	}
-	held := make([]*lasso.Moments, folds.K)
-	for f := range held {
-		_, rows := folds.Split(f, nil)
-		held[f] = lasso.NewMoments(shift)
-		if err := held[f].Accumulate(cols, nil, rows); err != nil {
-			t.Fatal(err)
-		}
-	}
+	total, held := foldMoments(t, x, y, folds)
 	r, err := cv.FitMoments(context.Background(), total, held, nil, 10, []int{0, 1, 2, 3, 4, 5, 6, 7, 8, 9}, s)
 	if err != nil {
 		t.Fatal(err)
