@@ -130,6 +130,13 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		e.omega[t] /= e.total
 		ybar += e.omega[t] * e.y[t]
 	}
+	// scratch receives, in the one pass of columnMoments, a 0/1
+	// predictor's positions of ones from the front and of zeros from the
+	// back; the rarer are then copied out at their exact size.
+	var scratch []int32
+	if n < math.MaxInt32 {
+		scratch = make([]int32, n)
+	}
 	for j, c := range e.cols {
 		if math.IsInf(v[j], 1) {
 			// An infinite penalty factor keeps the predictor out of
@@ -139,7 +146,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			e.ones[j] = nil
 			continue
 		}
-		m, ss, bin, count := e.columnMoments(c, r.intercept)
+		m, ss, bin, count := e.columnMoments(c, r.intercept, scratch)
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
 			e.excl[j] = true
 			e.scale[j] = 1
@@ -160,9 +167,13 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			// coefficient back.
 			e.flip[j] = true
 			e.center[j] = 1 - m
-			e.ones[j] = e.positions(c, 0, n-count)
+			zeros := make([]int32, n-count)
+			for k := range zeros {
+				zeros[k] = scratch[n-1-k] // written from the back: reversed
+			}
+			e.ones[j] = zeros
 		case bin:
-			e.ones[j] = e.positions(c, 1, count)
+			e.ones[j] = append(make([]int32, 0, count), scratch[:count]...)
 		}
 	}
 	if r.intercept {
@@ -198,25 +209,35 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 
 // columnMoments returns, in one pass over the fitted rows of column c, its
 // weighted mean (0 without an intercept), its weighted sum of squares about
-// that, whether it holds only 0 and 1, and then its number of ones. Sums are taken about the first value, so that a large
-// mean costs no precision.
-func (e *residualEngine) columnMoments(c []float64, intercept bool) (m, ss float64, bin bool, ones int) {
+// that, whether it holds only 0 and 1, and then its number of ones. When
+// pos is not nil (it has a place for every fitted row), it writes there
+// the positions of the ones from the front and those of the zeros from the
+// back, the last zero first. Sums are taken about the first value, so that
+// a large mean costs no precision.
+func (e *residualEngine) columnMoments(c []float64, intercept bool, pos []int32) (m, ss float64, bin bool, ones int) {
 	n := e.n
 	if n == 0 {
 		return 0, 0, false, 0
 	}
 	sh := c[e.row(0)]
 	var s1, s2 float64
-	bin = n < math.MaxInt32
+	bin = pos != nil
+	zeros := 0
 	omega := e.omega[:n]
 	visit := func(t int, x float64) {
 		dx := x - sh
 		w := omega[t]
 		s1 += w * dx
 		s2 += w * dx * dx
-		if x == 1 {
+		switch {
+		case !bin:
+		case x == 1:
+			pos[ones] = int32(t)
 			ones++
-		} else if x != 0 {
+		case x == 0:
+			zeros++
+			pos[n-zeros] = int32(t)
+		default:
 			bin = false
 		}
 	}
@@ -712,29 +733,6 @@ func (e *residualEngine) toOriginal(b []float64) float64 {
 		}
 	}
 	return b0
-}
-
-// positions lists the positions among the fitted rows where 0/1 column c
-// holds value, of which there are count: a second pass over the column, so
-// that the list is allocated at its exact size (a list grown by appending
-// holds up to twice its length, and a cross-validated node's full-data and
-// fold fits each hold one per 0/1 predictor).
-func (e *residualEngine) positions(c []float64, value float64, count int) []int32 {
-	out := make([]int32, 0, count)
-	if e.rows == nil {
-		for t, x := range c[:e.n] {
-			if x == value {
-				out = append(out, int32(t))
-			}
-		}
-		return out
-	}
-	for t, i := range e.rows {
-		if c[i] == value {
-			out = append(out, int32(t))
-		}
-	}
-	return out
 }
 
 func (e *residualEngine) deviance() float64 {
