@@ -221,10 +221,7 @@ func TestPairedRuleMargins(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, err := table.NewDataset(s.Names, s.Columns)
-	if err != nil {
-		t.Fatal(err)
-	}
+	d := dataset(t, s)
 	folds := cv.StudentMargin(cv.PairedMargin, 9)
 	for _, tc := range []struct {
 		name             string

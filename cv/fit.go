@@ -243,25 +243,33 @@ func Fit(ctx context.Context, d lasso.Data, folds *Folds, s *Settings) (*Result,
 
 // pairSums adds to out[k], for every penalty index k of out (those up to
 // best), the sums of this fold's held-out rows' losses at k minus their
-// losses at best. Rows whose loss is infinite at either are left out, as
-// sumRows leaves them out of the curve.
+// losses at best (see addPairs).
 func (fw *foldWalk) pairSums(best int, out []rowSums) {
 	path := fw.stepper.Path()
-	at := func(k int) { fw.ho.meanTo(fw.mu, path, min(k, path.Len()-1)) }
-	at(best)
-	base := make([]float64, len(fw.y))
-	for i, v := range fw.y {
-		base[i] = fw.measure.rowLoss(fw.fam, v, fw.mu[i])
+	predict := func(k int) { fw.ho.meanTo(fw.mu, path, min(k, path.Len()-1)) }
+	addPairs(out, best, predict, fw.measure, fw.fam, fw.y, fw.mu, fw.w)
+}
+
+// addPairs adds to out[k], for every penalty index k of out, the sums of
+// the rows' losses at k minus their losses at best: predict(k) forms the
+// rows' means at k in mu, y holds their responses and w their weights (nil:
+// 1). Rows whose loss is infinite at either are left out, as sumRows
+// leaves them out of the curve.
+func addPairs(out []rowSums, best int, predict func(k int), m Measure, fam lasso.Family, y, mu, w []float64) {
+	predict(best)
+	base := make([]float64, len(y))
+	for i, v := range y {
+		base[i] = m.rowLoss(fam, v, mu[i])
 	}
 	for k := range out {
-		at(k)
+		predict(k)
 		var s rowSums
-		for i, v := range fw.y {
-			d := fw.measure.rowLoss(fw.fam, v, fw.mu[i]) - base[i]
+		for i, v := range y {
+			d := m.rowLoss(fam, v, mu[i]) - base[i]
 			if math.IsInf(d, 0) || math.IsNaN(d) {
 				continue
 			}
-			s.addRow(fw.w, i, d)
+			s.addRow(w, i, d)
 		}
 		out[k].add(s)
 	}

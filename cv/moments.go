@@ -198,15 +198,25 @@ func (h *HeldRows) check(held []*lasso.Moments, response int, predictors []int) 
 
 // pairSums returns, for every penalty index k up to best, the sums of the
 // held-out rows' losses at k minus their losses at best, pooled over the
-// folds' paths. Predictions are formed column by column over the non-zero
-// coefficients, which are few on that side of the best penalty.
+// folds' paths (see addPairs). Predictions are formed column by column
+// over the non-zero coefficients, which are few on that side of the best
+// penalty.
 func (h *HeldRows) pairSums(paths []*lasso.Path, m Measure, response int, predictors []int, best int) []rowSums {
 	out := make([]rowSums, best+1)
 	b := make([]float64, len(predictors))
-	y := h.Columns[response]
 	for f, path := range paths {
 		rows := h.Held[f]
-		mu := make([]float64, len(rows))
+		y, mu := make([]float64, len(rows)), make([]float64, len(rows))
+		var w []float64
+		if h.Weights != nil {
+			w = make([]float64, len(rows))
+		}
+		for i, r := range rows {
+			y[i] = h.Columns[response][r]
+			if w != nil {
+				w[i] = h.Weights[r]
+			}
+		}
 		predict := func(k int) {
 			b0 := path.CoefficientsTo(b, min(k, path.Len()-1))
 			for i := range mu {
@@ -222,23 +232,7 @@ func (h *HeldRows) pairSums(paths []*lasso.Path, m Measure, response int, predic
 				}
 			}
 		}
-		predict(best)
-		base := make([]float64, len(rows))
-		for i, r := range rows {
-			base[i] = m.rowLoss(lasso.Gaussian{}, y[r], mu[i])
-		}
-		for k := range out {
-			predict(k)
-			var s rowSums
-			for i, r := range rows {
-				d := m.rowLoss(lasso.Gaussian{}, y[r], mu[i]) - base[i]
-				if math.IsInf(d, 0) || math.IsNaN(d) {
-					continue // as foldWalk.pairSums leaves such rows out
-				}
-				s.addRow(h.Weights, r, d)
-			}
-			out[k].add(s)
-		}
+		addPairs(out, best, predict, m, lasso.Gaussian{}, y, mu, w)
 	}
 	return out
 }
