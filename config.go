@@ -108,7 +108,7 @@ func (c *Config) resolve() (Config, error) {
 	if r.CV.Rule == cv.DefaultRule {
 		r.CV.Rule = cv.OneStandardError
 		if r.Selection == AdaptiveLasso && r.Stability.Pairs == 0 {
-			r.CV.Rule = cv.HalfStandardError
+			r.CV.Rule = cv.QuarterStandardError
 		}
 	}
 	if r.Workers < 0 {

@@ -129,7 +129,7 @@ func (r *run) newNode(p *nodePlan) Node {
 	n := Node{
 		Name: vr.Name, Kind: vr.Kind, Family: p.family.Name(), Tier: tier + 1,
 		Candidates: r.names(p.cands), Required: r.names(p.required), Parents: r.names(p.required),
-		Penalty: nan(), BestPenalty: nan(), OneSEPenalty: nan(), Rule: r.cfg.CV.Rule, Margin: nan(), Measure: r.cfg.CV.Measure,
+		Penalty: nan(), BestPenalty: nan(), OneSEPenalty: nan(), Rule: r.cfg.CV.Rule, Margin: nan(), RuleSE: nan(), Measure: r.cfg.CV.Measure,
 		MarkovBlanket: []string{}, Warnings: []string{},
 		Score: Score{Value: nan(), SE: nan()}, PenalisedScore: Score{Value: nan(), SE: nan()}, Intercept: nan(),
 	}
@@ -249,6 +249,7 @@ func (r *run) describe(p *nodePlan, out cvOut) Node {
 	n.BestPenalty = Number(res.Curve[res.Best].Penalty)
 	n.OneSEPenalty = Number(res.Curve[res.OneSE].Penalty)
 	n.Margin = Number(res.Margin)
+	n.RuleSE = Number(res.RuleSE)
 	n.Measure = res.Measure
 	n.Status = full.Status.String()
 	if full.Status != lasso.Completed && full.Status != lasso.Stopped {

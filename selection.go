@@ -171,8 +171,9 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 	}
 	pick := best // the first (smallest) set within the rule's standard errors
 	rule := r.cfg.CV.Rule
+	yardstick := rule.Yardstick(ses[best], cv.Deviance, p.family, float64(len(out.rows)))
 	for i := range means {
-		allowed := rule.StandardErrors() * ses[best]
+		allowed := rule.StandardErrors() * yardstick
 		if rule.Paired() {
 			// Pairs of fold values: the margin of their K−1 degrees of freedom.
 			allowed = cv.StudentMargin(rule.StandardErrors(), len(foldLoss[i])-1) * pairSE(foldLoss[i], foldLoss[best])

@@ -30,6 +30,7 @@ func TestSelectionExplanation(t *testing.T) {
 	}{
 		{antecedent.AdaptiveLasso, cv.OneStandardError, []string{"two rounds of lasso", "penalises weakly linked variables more", "within one standard error"}},
 		{antecedent.AdaptiveLasso, cv.HalfStandardError, []string{"two rounds of lasso", "penalises weakly linked variables more", "within half a standard error"}},
+		{antecedent.AdaptiveLasso, cv.QuarterStandardError, []string{"two rounds of lasso", "penalises weakly linked variables more", "within a quarter of a standard error"}},
 		{antecedent.AdaptiveLasso, cv.MinimumLoss, []string{"two rounds of lasso", "predicts rows left out of the fit best"}},
 		{antecedent.AdaptiveLasso, cv.PairedDifference, []string{"two rounds of lasso", "worse than the best penalty's by at most one and a half standard errors of the difference"}},
 		{antecedent.RelaxedLasso, cv.PairedDifference, []string{"refitted without penalty", "smallest set", "one and a half standard errors of the difference"}},
@@ -62,7 +63,7 @@ func TestSelectionExplanation(t *testing.T) {
 		cfg  *antecedent.Config
 		want string
 	}{
-		{"nil config: the default", nil, antecedent.AdaptiveLasso.Explanation(cv.HalfStandardError)},
+		{"nil config: the default", nil, antecedent.AdaptiveLasso.Explanation(cv.QuarterStandardError)},
 		{"textbook named, its own rule", &antecedent.Config{Selection: antecedent.PenalisedLasso}, antecedent.PenalisedLasso.Explanation(cv.OneStandardError)},
 		{"adaptive, one-SE asked", &antecedent.Config{CV: cv.Settings{Rule: cv.OneStandardError}}, antecedent.AdaptiveLasso.Explanation(cv.OneStandardError)},
 		{"textbook, minimum rule", &antecedent.Config{Selection: antecedent.PenalisedLasso, CV: cv.Settings{Rule: cv.MinimumLoss}}, antecedent.PenalisedLasso.Explanation(cv.MinimumLoss)},
@@ -94,7 +95,7 @@ func TestSelectionExplanationInREADME(t *testing.T) {
 }
 
 // TestDefaultRule checks which rule each node records when Config.CV.Rule
-// is left at cv.DefaultRule: half-se under the adaptive lasso, one-se under
+// is left at cv.DefaultRule: quarter-se under the adaptive lasso, one-se under
 // the textbook and relaxed lasso and under stability selection; a rule
 // asked for is kept. The stored Config says the rule resolved.
 func TestDefaultRule(t *testing.T) {
@@ -104,7 +105,7 @@ func TestDefaultRule(t *testing.T) {
 		cfg  antecedent.Config
 		want cv.Rule
 	}{
-		{"default", antecedent.Config{}, cv.HalfStandardError},
+		{"default", antecedent.Config{}, cv.QuarterStandardError},
 		{"adaptive, paired asked", antecedent.Config{CV: cv.Settings{Rule: cv.PairedDifference}}, cv.PairedDifference},
 		{"textbook", antecedent.Config{Selection: antecedent.PenalisedLasso}, cv.OneStandardError},
 		{"relaxed", antecedent.Config{Selection: antecedent.RelaxedLasso}, cv.OneStandardError},
@@ -145,26 +146,34 @@ func TestAdaptiveWeightsInsideFolds(t *testing.T) {
 	}
 }
 
-// TestBinaryFalseParentsAtNoSignal checks that under the paired-difference
-// rule (cv.PairedDifference) binary nodes get no more false parents than
-// continuous ones when there is no signal at all (networks without a single
-// edge, 1,000 rows, 30 variables in 5 tiers, 6 seeds each), the floor of
-// "no more false edges than continuous ones at the same signal". The
-// standard error at the best penalty, which the default half-SE rule reads,
-// is small for a 0/1 node whose prevalence is near one half, so that rule
-// lets chance candidates into binary nodes (6 false parents on these 144
-// binary nodes, none on the continuous ones); the paired rule reads the
-// noise of the comparison itself.
+// TestBinaryFalseParentsAtNoSignal checks that binary nodes get no more
+// false parents than continuous ones when there is no signal at all
+// (networks without a single edge, 1,000 rows, 30 variables in 5 tiers, 6
+// seeds each), the floor of "no more false edges than continuous ones at the
+// same signal", under the default (the quarter-SE rule, whose standard error
+// for a binary node's deviance is at least √(2/(n−1)), cv.Rule.Yardstick)
+// and under the paired-difference rule (cv.PairedDifference). Without the
+// floor the default's rule read the best point's standard error, small for
+// a 0/1 node whose prevalence is near one half, and let chance candidates
+// into binary nodes (the half-SE default before it: 6 false parents on these
+// 144 binary nodes, none on the continuous ones).
 func TestBinaryFalseParentsAtNoSignal(t *testing.T) {
 	if testing.Short() {
-		t.Skip("twelve networks of 1,000 rows")
+		t.Skip("24 networks of 1,000 rows")
 	}
-	paired := &antecedent.Config{CV: cv.Settings{Rule: cv.PairedDifference}}
-	bin, nb := nullFalseParents(t, 1, paired)
-	cont, nc := nullFalseParents(t, 0, paired)
-	t.Logf("false parents: %d on %d binary nodes, %d on %d continuous ones", bin, nb, cont, nc)
-	if float64(bin)/float64(nb) > float64(cont+1)/float64(nc) {
-		t.Errorf("%d false parents on %d binary nodes, %d on %d continuous ones: want no more per node (one of slack)", bin, nb, cont, nc)
+	for _, tc := range []struct {
+		name string
+		cfg  *antecedent.Config
+	}{
+		{"default", &antecedent.Config{}},
+		{"paired", &antecedent.Config{CV: cv.Settings{Rule: cv.PairedDifference}}},
+	} {
+		bin, nb := nullFalseParents(t, 1, tc.cfg)
+		cont, nc := nullFalseParents(t, 0, tc.cfg)
+		t.Logf("%s: false parents: %d on %d binary nodes, %d on %d continuous ones", tc.name, bin, nb, cont, nc)
+		if float64(bin)/float64(nb) > float64(cont+1)/float64(nc) {
+			t.Errorf("%s: %d false parents on %d binary nodes, %d on %d continuous ones: want no more per node (one of slack)", tc.name, bin, nb, cont, nc)
+		}
 	}
 }
 

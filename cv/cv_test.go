@@ -382,7 +382,7 @@ func TestRules(t *testing.T) {
 		rule cv.Rule
 		name string
 		m    float64
-	}{{cv.OneStandardError, "one-se", 1}, {cv.HalfStandardError, "half-se", 0.5}, {cv.MinimumLoss, "minimum", 0}} {
+	}{{cv.OneStandardError, "one-se", 1}, {cv.HalfStandardError, "half-se", 0.5}, {cv.QuarterStandardError, "quarter-se", 0.25}, {cv.MinimumLoss, "minimum", 0}} {
 		if got, err := cv.ParseRule(tc.name); err != nil || got != tc.rule || tc.rule.String() != tc.name {
 			t.Errorf("ParseRule(%q) = %v, %v; String %q", tc.name, got, err, tc.rule.String())
 		}
@@ -398,9 +398,13 @@ func TestRules(t *testing.T) {
 		if r.Selected != want {
 			t.Errorf("%s: selected %d, want %d (bound %g)", tc.name, r.Selected, want, bound)
 		}
+		if r.RuleSE != r.Curve[r.Best].SE {
+			t.Errorf("%s: the rule read a standard error of %g, want the best point's %g (a Gaussian node's is not floored)", tc.name, r.RuleSE, r.Curve[r.Best].SE)
+		}
 		chosen[tc.rule] = r.Selected
 	}
-	if !(chosen[cv.OneStandardError] <= chosen[cv.HalfStandardError] && chosen[cv.HalfStandardError] <= chosen[cv.MinimumLoss]) ||
+	if !(chosen[cv.OneStandardError] <= chosen[cv.HalfStandardError] && chosen[cv.HalfStandardError] <= chosen[cv.QuarterStandardError] &&
+		chosen[cv.QuarterStandardError] <= chosen[cv.MinimumLoss]) ||
 		chosen[cv.OneStandardError] == chosen[cv.MinimumLoss] {
 		t.Errorf("choices %v do not nest, or the curve is too flat to tell the rules apart", chosen)
 	}
@@ -457,6 +461,101 @@ func TestPairedDifference(t *testing.T) {
 	one := slices.IndexFunc(r.Curve, func(p cv.Point) bool { return p.Mean <= r.Curve[r.Best].Mean+r.Margin*r.Curve[r.Best].SE })
 	if !(one < r.Selected) {
 		t.Errorf("paired rule chose %d, the best point's SE with the same multiple %d: want the paired rule nearer the best", r.Selected, one)
+	}
+}
+
+// TestBinomialYardstick checks the standard error the rules read for a
+// binomial deviance (cv.Rule.Yardstick): the one-SE rule reads the best
+// point's own; the half- and quarter-SE rules at least √(2/(n−1)), the
+// standard error of a mean of n values with the variance of χ²₁ (common
+// practice: Var χ²₁ = 2), n the rows held out in turn; and each rule
+// chooses the strongest penalty within its multiple of that standard error
+// of the best mean, worked from the returned curve. On the breast cancer
+// data (Wolberg et al.; scikit-learn's copy: 0/1 benign from the first ten
+// features) and on the diabetes data (Efron et al. 2004: the 0/1 sex from
+// the other nine variables, a weak signal, where every row's deviance is
+// about the same and the floor must bind).
+func TestBinomialYardstick(t *testing.T) {
+	cancer, err := opendata.ReadCSV("breast_cancer.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	dx, _, _ := diabetesFolds(t)
+	sex := make([]float64, len(dx[1]))
+	for i, v := range dx[1] {
+		if v > 0 {
+			sex[i] = 1
+		}
+	}
+	others := append(append([][]float64{}, dx[:1]...), dx[2:]...)
+	for _, tc := range []struct {
+		name  string
+		x     [][]float64
+		y     []float64
+		binds bool // the floor must bind
+	}{
+		{"breast cancer", opendata.UnitNorm(cancer.Columns[:10]), cancer.Column("benign"), false},
+		{"diabetes, sex", others, sex, true},
+	} {
+		folds, err := cv.Stratified(tc.y, 10, 7)
+		if err != nil {
+			t.Fatal(err)
+		}
+		floor := math.Sqrt(2 / float64(len(tc.y)-1))
+		for _, rc := range []struct {
+			rule    cv.Rule
+			m       float64
+			floored bool
+		}{{cv.OneStandardError, 1, false}, {cv.HalfStandardError, 0.5, true}, {cv.QuarterStandardError, 0.25, true}} {
+			r, err := cv.Fit(context.Background(), lasso.Data{Columns: tc.x, Response: tc.y}, folds,
+				&cv.Settings{Path: lasso.Settings{Family: lasso.Binomial{}}, Rule: rc.rule, WholePath: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			se := r.Curve[r.Best].SE
+			want := se
+			if rc.floored {
+				want = math.Max(se, floor)
+			}
+			if math.Abs(r.RuleSE-want) > 1e-12*want {
+				t.Errorf("%s, %v: the rule read %g, want %g (best point's %g, floor %g)", tc.name, rc.rule, r.RuleSE, want, se, floor)
+			}
+			if rc.floored && tc.binds && !(floor > se) {
+				t.Errorf("%s: the best point's standard error %g is not below the floor %g", tc.name, se, floor)
+			}
+			bound := r.Curve[r.Best].Mean + rc.m*want
+			if k := slices.IndexFunc(r.Curve, func(p cv.Point) bool { return p.Mean <= bound }); r.Selected != k {
+				t.Errorf("%s, %v: selected %d, want %d (bound %g)", tc.name, rc.rule, r.Selected, k, bound)
+			}
+		}
+	}
+}
+
+// TestYardstick checks which rules, measures and families take the floor
+// of cv.Rule.Yardstick, and its value √(2/(n−1)) (common practice: the
+// standard error of a mean of n values of variance 2, that of χ²₁).
+func TestYardstick(t *testing.T) {
+	floor := math.Sqrt(2.0 / 99)
+	for _, tc := range []struct {
+		name    string
+		rule    cv.Rule
+		measure cv.Measure
+		fam     lasso.Family
+		se, n   float64
+		want    float64
+	}{
+		{"quarter, binomial deviance, below the floor", cv.QuarterStandardError, cv.Deviance, lasso.Binomial{}, 0.05, 100, floor},
+		{"half, binomial, default measure", cv.HalfStandardError, cv.DefaultMeasure, lasso.Binomial{}, 0.05, 100, floor},
+		{"quarter, binomial, above the floor", cv.QuarterStandardError, cv.Deviance, lasso.Binomial{}, 0.3, 100, 0.3},
+		{"quarter, Gaussian", cv.QuarterStandardError, cv.Deviance, lasso.Gaussian{}, 0.05, 100, 0.05},
+		{"one-SE, binomial", cv.OneStandardError, cv.Deviance, lasso.Binomial{}, 0.05, 100, 0.05},
+		{"quarter, binomial, misclassification", cv.QuarterStandardError, cv.Misclassification, lasso.Binomial{}, 0.05, 100, 0.05},
+		{"quarter, binomial, rows unknown", cv.QuarterStandardError, cv.Deviance, lasso.Binomial{}, 0.05, math.NaN(), 0.05},
+		{"quarter, binomial, no standard error", cv.QuarterStandardError, cv.Deviance, lasso.Binomial{}, math.NaN(), 100, floor},
+	} {
+		if got := tc.rule.Yardstick(tc.se, tc.measure, tc.fam, tc.n); math.Abs(got-tc.want) > 1e-15 {
+			t.Errorf("%s: %g, want %g", tc.name, got, tc.want)
+		}
 	}
 }
 

@@ -16,8 +16,11 @@
 // one-standard-error rule (OneStandardError, the default): the largest
 // penalty whose mean is within one SE of the best (Breiman, Friedman,
 // Olshen & Stone 1984; Hastie, Tibshirani & Friedman, The Elements of
-// Statistical Learning, 2nd ed., sec. 7.10), by the same with half an SE
-// (HalfStandardError, not a published rule; see its comment), or by the
+// Statistical Learning, 2nd ed., sec. 7.10), by the same with half or a
+// quarter of an SE (HalfStandardError, QuarterStandardError: not published
+// rules; see their comments), whose standard error for a binomial
+// deviance is at least √(2/(n−1)), that of a Gaussian node's mean deviance
+// at unit variance (Rule.Yardstick, Result.RuleSE), or by the
 // paired-difference rule (PairedDifference): the largest penalty whose mean
 // exceeds the best by at most PairedMargin standard errors of that
 // difference, from the held-out rows' paired losses (each row's loss at the

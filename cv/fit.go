@@ -79,6 +79,11 @@ type Result struct {
 	// of the same one-sided level as PairedMargin's normal one (1.649 for ten
 	// folds).
 	Margin float64
+	// RuleSE is the standard error Margin multiplied under a rule that
+	// reads the best point's (all but PairedDifference, where it is NaN):
+	// the best point's SE, raised for the deviance of a binomial response
+	// under the package's own margins to the floor of Rule.Yardstick.
+	RuleSE float64
 
 	// paths holds each fold's training path, whichever way it was fitted.
 	paths []*lasso.Path
@@ -91,6 +96,23 @@ type Result struct {
 	// of the held-out rows' losses there minus their losses at best,
 	// pooled over the folds (see Point.PairSE).
 	pairRows func(best int) []rowSums
+}
+
+// heldRows returns the effective number of held-out rows behind point k's
+// per-row standard error (see rowSums.se), NaN when the rows' losses were
+// not kept.
+func (r *Result) heldRows(k int) float64 {
+	if len(r.rows) == 0 {
+		return math.NaN()
+	}
+	var all rowSums
+	for _, f := range r.rows {
+		if f == nil || k >= len(f) {
+			return math.NaN()
+		}
+		all.add(f[k])
+	}
+	return all.w * all.w / all.w2
 }
 
 // FoldPath returns fold f's training path, fitted on the same grid as
@@ -138,7 +160,7 @@ func resolveSettings(s *Settings) (Settings, lasso.Family, error) {
 	if c.Rule == DefaultRule {
 		c.Rule = OneStandardError
 	}
-	if c.Rule != MinimumLoss && c.Rule != OneStandardError && c.Rule != HalfStandardError && c.Rule != PairedDifference {
+	if c.Rule != MinimumLoss && c.Rule != OneStandardError && c.Rule != HalfStandardError && c.Rule != QuarterStandardError && c.Rule != PairedDifference {
 		return c, fam, fmt.Errorf("cv: unknown rule %d", int(c.Rule))
 	}
 	if c.Workers < 0 {
@@ -584,7 +606,8 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	summarise(r.Curve, r.FoldValues, r.rows)
 	// The paired differences cost a second pass over the held-out
 	// predictions: they are formed for the rule that reads them only.
-	switch best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false); {
+	best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false, 0)
+	switch {
 	case !r.Rule.Paired():
 	case best >= 0 && r.pairRows != nil:
 		for k, s := range r.pairRows(best) {
@@ -600,8 +623,12 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	if r.Rule.Paired() && r.pairRows == nil {
 		r.Margin = StudentMargin(r.Margin, len(r.FoldValues)-1)
 	}
+	r.RuleSE = math.NaN()
+	if best >= 0 && !r.Rule.Paired() {
+		r.RuleSE = r.Rule.Yardstick(r.Curve[best].SE, r.Measure, r.Full.Family, r.heldRows(best))
+	}
 	if r.Rule != OneStandardError {
-		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Margin, r.Rule.Paired())
+		_, r.Selected = chooseWithin(r.Curve, r.Measure.LargerIsBetter(), r.Margin, r.Rule.Paired(), r.RuleSE)
 	}
 	if r.Selected < 0 {
 		r.Best, r.OneSE, r.Selected = 0, 0, 0

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"github.com/antecedent-lab/antecedent/lasso"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -27,11 +28,9 @@ const (
 	// (the largest such penalty when several tie).
 	MinimumLoss
 	// HalfStandardError picks the largest penalty whose mean is within half
-	// a standard error of the best mean: between the two rules above. It is
-	// not a published rule; its multiple was chosen on simulated networks
-	// for the adaptive lasso's second stage, whose penalty factors already
-	// do much of the pruning the one-standard-error rule is there for
-	// (figures in bench/README.md, section Validity).
+	// of the rule's standard error (Rule.Yardstick) of the best mean:
+	// between the two rules above. It is not a published rule; it was the
+	// adaptive lasso's default before QuarterStandardError.
 	HalfStandardError
 	// PairedDifference picks the largest penalty whose mean exceeds the
 	// best mean by at most PairedMargin standard errors of that
@@ -52,6 +51,16 @@ const (
 	// Validity). Comparing models on the same held-out rows is common
 	// practice; the margin is not a published rule.
 	PairedDifference
+	// QuarterStandardError picks the largest penalty whose mean is within
+	// a quarter of the rule's standard error (Rule.Yardstick) of the best
+	// mean. It is not a published rule: it is the default of the adaptive
+	// lasso's second stage, whose penalty factors already do much of the
+	// pruning the one-standard-error rule is there for, and its multiple
+	// was chosen on the validity harness together with the yardstick's
+	// floor for binary nodes, under which binary and continuous nodes of
+	// the same signal get as many false parents and as high an F1 (figures
+	// in bench/README.md, section Validity).
+	QuarterStandardError
 )
 
 // PairedMargin is how many standard errors of the paired difference
@@ -70,10 +79,57 @@ func (r Rule) StandardErrors() float64 {
 		return 1
 	case HalfStandardError:
 		return 0.5
+	case QuarterStandardError:
+		return 0.25
 	case PairedDifference:
 		return PairedMargin
 	}
 	return 0
+}
+
+// Yardstick returns the standard error whose multiple rule r allows above
+// the best mean (StandardErrors), given the best point's standard error se
+// (Point.SE) over n held-out rows (their effective number), for measure m
+// of a response of family fam. It is se, except that the package's own
+// margins (HalfStandardError, QuarterStandardError) hold the deviance of a
+// binomial response to at least DevianceSE(n).
+//
+// The reason is the size of se itself. A candidate with no effect lowers a
+// node's deviance by chance about as much whatever its kind, by φ·χ²₁ over
+// the rows, with dispersion φ = σ² for a Gaussian response and 1 for a
+// binomial one. A Gaussian node's unit deviance is σ²·χ²₁ row by row, so
+// its standard error is about √2·σ²/√n, in step with those chance gains;
+// a binomial node's unit deviance varies far less from row to row (not at
+// all for an empty model at prevalence ½), so a margin of its se is a
+// narrower allowance for the same chance gain and lets chance candidates
+// in that a continuous node of the same signal keeps out. DevianceSE is the
+// Gaussian's standard error at unit dispersion: with it as the floor, both
+// kinds are held to one yardstick (common practice: Var χ²₁ = 2). The
+// published one-standard-error rule keeps its own standard error.
+func (r Rule) Yardstick(se float64, m Measure, fam lasso.Family, n float64) float64 {
+	if r != HalfStandardError && r != QuarterStandardError {
+		return se
+	}
+	if m != Deviance && m != DefaultMeasure {
+		return se
+	}
+	if _, ok := fam.(lasso.Binomial); !ok {
+		return se
+	}
+	if f := DevianceSE(n); f > se || math.IsNaN(se) {
+		return f
+	}
+	return se
+}
+
+// DevianceSE returns √(2/(n−1)), the standard error of the mean of n
+// values that vary as a χ² variable on one degree of freedom (variance 2),
+// with n − 1 as in Point.SE; NaN when n ≤ 1 or n is NaN.
+func DevianceSE(n float64) float64 {
+	if !(n > 1) {
+		return math.NaN()
+	}
+	return math.Sqrt(2 / (n - 1))
 }
 
 // Paired reports whether rule r reads the standard error of the paired
@@ -92,6 +148,8 @@ func (r Rule) String() string {
 		return "one-se"
 	case HalfStandardError:
 		return "half-se"
+	case QuarterStandardError:
+		return "quarter-se"
 	case PairedDifference:
 		return "paired"
 	}
@@ -107,6 +165,8 @@ func (r Rule) Reach() string {
 		return "one standard error"
 	case HalfStandardError:
 		return "half a standard error"
+	case QuarterStandardError:
+		return "a quarter of a standard error"
 	case PairedDifference:
 		return "one and a half standard errors of the difference"
 	}
@@ -121,6 +181,8 @@ func (r Rule) Title() string {
 		return "one-standard-error rule"
 	case HalfStandardError:
 		return "half-standard-error rule"
+	case QuarterStandardError:
+		return "quarter-standard-error rule"
 	case PairedDifference:
 		return "paired-difference rule"
 	case MinimumLoss:
@@ -140,10 +202,12 @@ func ParseRule(s string) (Rule, error) {
 		return OneStandardError, nil
 	case "half-se":
 		return HalfStandardError, nil
+	case "quarter-se":
+		return QuarterStandardError, nil
 	case "paired":
 		return PairedDifference, nil
 	}
-	return 0, fmt.Errorf("cv: unknown rule %q (want paired, one-se, half-se, minimum or default)", s)
+	return 0, fmt.Errorf("cv: unknown rule %q (want paired, one-se, half-se, quarter-se, minimum or default)", s)
 }
 
 // Point is one penalty of a cross-validation curve.
@@ -178,14 +242,14 @@ type Point struct {
 // larger is true. NaN means are never chosen. It returns −1, −1 when every
 // mean is NaN.
 func Choose(curve []Point, larger bool) (best, oneSE int) {
-	return chooseWithin(curve, larger, 1, false)
+	return chooseWithin(curve, larger, 1, false, 0)
 }
 
 // chooseWithin returns the index of the best point and that of the first
 // (largest) penalty whose mean is within m standard errors of the best:
-// of the best point's (Point.SE), or with paired of the difference from
-// it (Point.PairSE).
-func chooseWithin(curve []Point, larger bool, m float64, paired bool) (best, within int) {
+// of the best point's (Point.SE, or floor when larger), or with paired of
+// the difference from it (Point.PairSE).
+func chooseWithin(curve []Point, larger bool, m float64, paired bool, floor float64) (best, within int) {
 	best = -1
 	for k, p := range curve {
 		if math.IsNaN(p.Mean) {
@@ -210,9 +274,13 @@ func chooseWithin(curve []Point, larger bool, m float64, paired bool) (best, wit
 		}
 		return best, best
 	}
-	bound := curve[best].Mean + m*curve[best].SE
+	se := curve[best].SE
+	if floor > se {
+		se = floor
+	}
+	bound := curve[best].Mean + m*se
 	if larger {
-		bound = curve[best].Mean - m*curve[best].SE
+		bound = curve[best].Mean - m*se
 	}
 	for k, p := range curve[:best+1] {
 		if (larger && p.Mean >= bound) || (!larger && p.Mean <= bound) {
@@ -308,7 +376,7 @@ func StudentMargin(m float64, df int) float64 {
 // pair sets PairSE of every point of curve from the fold values loss[f][k]
 // (see Point.PairSE); larger says that larger is better.
 func pair(curve []Point, loss [][]float64, larger bool) {
-	best, _ := chooseWithin(curve, larger, 0, false)
+	best, _ := chooseWithin(curve, larger, 0, false, 0)
 	if best < 0 || len(loss) < 2 {
 		for k := range curve {
 			curve[k].PairSE = math.NaN()

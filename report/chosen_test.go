@@ -2,6 +2,7 @@ package report
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/antecedent-lab/antecedent"
@@ -41,30 +42,42 @@ func TestChosenBy(t *testing.T) {
 // marks the bound the rule compared with, the best mean plus one standard
 // error under the one-SE rule and plus half of one under the half-SE rule
 // (common practice for the one-SE rule; cv.HalfStandardError for the
-// other), measured from the best point on the chart's own scale.
+// other), measured from the best point on the chart's own scale. When the
+// rule read a standard error above the best point's (a binary node's floor,
+// Node.RuleSE), the line is drawn from that one, and the caption says so.
 func TestRuleLevel(t *testing.T) {
 	var curve []antecedent.CurvePoint
 	for k, m := range []float64{5, 4.2, 3.9, 3.7, 3.8} {
 		curve = append(curve, antecedent.CurvePoint{Penalty: antecedent.Number(math.Pow(2, -float64(k))), Mean: antecedent.Number(m), SE: 0.3})
 	}
-	level := func(r cv.Rule) (rule, best float64) {
-		n := &antecedent.Node{Curve: curve, Penalty: curve[1].Penalty, BestPenalty: curve[3].Penalty, Rule: r, Measure: cv.Deviance}
+	level := func(r cv.Rule, ruleSE float64) (rule, best float64, caption string) {
+		n := &antecedent.Node{Curve: curve, Penalty: curve[1].Penalty, BestPenalty: curve[3].Penalty, Rule: r, RuleSE: antecedent.Number(ruleSE), Measure: cv.Deviance, Rows: 500}
 		c := cvChart(n, "x")
 		if c == nil || c.Rule == nil {
 			t.Fatalf("%v: no level line", r)
 		}
 		for _, d := range c.Dots {
 			if d.Class == "lowest" {
-				return c.Rule.Y, d.Y
+				return c.Rule.Y, d.Y, c.Caption
 			}
 		}
 		t.Fatalf("%v: no best point", r)
-		return 0, 0
+		return 0, 0, ""
 	}
-	one, best := level(cv.OneStandardError)
-	half, best2 := level(cv.HalfStandardError)
+	one, best, _ := level(cv.OneStandardError, 0.3)
+	half, best2, caption := level(cv.HalfStandardError, 0.3)
 	if best != best2 || math.Abs((half-best)/(one-best)-0.5) > 1e-9 {
 		t.Errorf("level lines at %g (one-SE) and %g (half-SE) from the best point at %g; want the second half as far", one, half, best)
+	}
+	if strings.Contains(caption, "at least") {
+		t.Errorf("caption speaks of a floor the rule did not use: %q", caption)
+	}
+	quarter, best3, caption := level(cv.QuarterStandardError, 0.6)
+	if best != best3 || math.Abs((quarter-best)/(one-best)-0.5) > 1e-9 {
+		t.Errorf("level lines at %g (one-SE, 0.3) and %g (quarter-SE, read 0.6) from the best point at %g; want the second half as far", one, quarter, best)
+	}
+	if !strings.Contains(caption, "taken as at least 0.6") || !strings.Contains(caption, "n = 500") {
+		t.Errorf("caption does not say the standard error was raised to 0.6 over 500 rows: %q", caption)
 	}
 }
 

@@ -624,6 +624,9 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's by at most %.3g standard errors of the difference between them (open circle); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), margin)
 	} else if reach := n.Rule.Reach(); reach != "" {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
+		if best >= 0 && raised(n, hi[best]-ys[best]) {
+			c.Caption += fmt.Sprintf(" For a 0/1 variable that standard error is taken as at least %.3g, √(2/(n−1)) for n = %d rows held out in turn: the standard error of a continuous variable's mean deviance at unit variance, so that both kinds are held to one yardstick.", float64(n.RuleSE), n.Rows)
+		}
 	} else if n.Rule == cv.MinimumLoss {
 		c.Caption += fmt.Sprintf(" Minimum-loss rule: the penalty with the best held-out %s.", measureName(n.Measure))
 	}
@@ -636,9 +639,13 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	if best >= 0 && best != chosen {
 		// The level the rule compared with: the best mean plus (or minus)
 		// the rule's multiple of its standard error (hi and lo are ±1 SE).
-		lvl := ys[best] + n.Rule.StandardErrors()*(hi[best]-ys[best])
+		se := hi[best] - ys[best]
+		if raised(n, se) {
+			se = float64(n.RuleSE)
+		}
+		lvl := ys[best] + n.Rule.StandardErrors()*se
 		if larger {
-			lvl = ys[best] - n.Rule.StandardErrors()*(ys[best]-lo[best])
+			lvl = ys[best] - n.Rule.StandardErrors()*se
 		}
 		if n.Rule.Paired() {
 			// The paired rule compares each point's mean, less its
@@ -674,6 +681,13 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	c.Dots = append(c.Dots, dot{X: x, Y: y, Class: "chosen"})
 	c.Labels = append(c.Labels, key)
 	return c
+}
+
+// raised reports whether node n's rule read a standard error above se, the
+// best point's (cv.Rule.Yardstick's floor for binary nodes).
+func raised(n *antecedent.Node, se float64) bool {
+	r := float64(n.RuleSE)
+	return finite(r) && finite(se) && r > se*(1+1e-9)
 }
 
 func finiteOr(v, alt float64) float64 {

@@ -35,12 +35,12 @@ func Example() {
 	need, _ := p.RowsFor("dose", "response", 0.8)
 	fmt.Printf("80%%: about %d rows (%s between %d and %d)\n", need.Rows, need.Status, need.Below, need.Above)
 	// Output:
-	//   50 rows: found in 0.28 of studies (± 0.07)
-	//  100 rows: found in 0.57 of studies (± 0.08)
-	//  200 rows: found in 0.82 of studies (± 0.06)
+	//   50 rows: found in 0.38 of studies (± 0.08)
+	//  100 rows: found in 0.65 of studies (± 0.08)
+	//  200 rows: found in 0.95 of studies (± 0.03)
 	//  400 rows: found in 1.00 of studies (± 0.00)
-	//  800 rows: found in 0.95 of studies (± 0.03)
-	// 80%: about 187 rows (reached between 100 and 200)
+	//  800 rows: found in 1.00 of studies (± 0.00)
+	// 80%: about 142 rows (reached between 100 and 200)
 }
 
 // ExampleAnswer_Chart gives a report the numbers to draw a plan with its
@@ -73,6 +73,6 @@ func ExampleAnswer_Chart() {
 	fmt.Printf("mark %.0f%% at %d rows (%s)\n", 100*c.Needed.Probability, c.Needed.Rows, c.Needed.Status)
 	// Output:
 	// Rows needed to find dose → response in 80% of studies
-	// dose → response: [0.75 0.65 1.00]
-	// mark 80% at 63 rows (reached)
+	// dose → response: [0.80 0.80 1.00]
+	// mark 80% at 25 rows (at the smallest size)
 }

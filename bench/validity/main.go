@@ -167,6 +167,7 @@ func procedures() []procedure {
 		{name: "one-SE rule", cfg: rule(cv.OneStandardError)},
 		{name: "adaptive one-SE", cfg: selection(antecedent.AdaptiveLasso, cv.OneStandardError)},
 		{name: "adaptive half-SE", cfg: selection(antecedent.AdaptiveLasso, cv.HalfStandardError)},
+		{name: "adaptive quarter-SE", cfg: selection(antecedent.AdaptiveLasso, cv.QuarterStandardError)},
 		{name: "adaptive paired", cfg: selection(antecedent.AdaptiveLasso, cv.PairedDifference)},
 		{name: "adaptive minimum", cfg: selection(antecedent.AdaptiveLasso, cv.MinimumLoss)},
 		{name: "relaxed one-SE", cfg: selection(antecedent.RelaxedLasso, cv.OneStandardError)},

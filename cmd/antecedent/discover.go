@@ -60,7 +60,7 @@ func (s *settings) registerGraphOutputs(fs *flag.FlagSet) {
 
 func (s *settings) register(fs *flag.FlagSet) {
 	fs.IntVar(&s.folds, "folds", 10, "cross-validation folds")
-	fs.StringVar(&s.rule, "rule", "default", "penalty choice: one-se, half-se, paired or minimum; default is half-se for the adaptive lasso's second stage, one-se for the others and for stability selection")
+	fs.StringVar(&s.rule, "rule", "default", "penalty choice: one-se, half-se, quarter-se, paired or minimum; default is quarter-se for the adaptive lasso's second stage, one-se for the others and for stability selection")
 	fs.StringVar(&s.selection, "selection", "adaptive", "how parents are chosen: adaptive (adaptive lasso), lasso (the textbook lasso) or relaxed (relaxed lasso)")
 	fs.StringVar(&s.measure, "measure", "deviance", "cross-validated loss: deviance, mse, mae, auc or misclassification (auc and misclassification score binary nodes; continuous ones then use deviance)")
 	fs.Uint64Var(&s.seed, "seed", 1, "seed for folds and subsamples")
