@@ -621,9 +621,9 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		margin = m
 	}
 	if n.Rule.Paired() {
-		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's by at most %.3g standard errors of the difference between them (open circle); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), margin)
+		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's (open circle) by at most %.3g standard errors of the difference between them (dark point); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), margin)
 	} else if reach := n.Rule.Reach(); reach != "" {
-		c.Caption += fmt.Sprintf(" %s: the strongest penalty within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
+		c.Caption += fmt.Sprintf(" %s: the strongest penalty (dark point) within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
 		if best >= 0 && raised(n, hi[best]-ys[best]) {
 			c.Caption += fmt.Sprintf(" For a 0/1 variable that standard error is taken as at least %.3g, √(2/(n−1)) for n = %d rows held out in turn: the standard error of a continuous variable's mean deviance at unit variance, so that both kinds are held to one yardstick.", float64(n.RuleSE), n.Rows)
 		}

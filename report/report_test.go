@@ -78,7 +78,7 @@ func TestStructure(t *testing.T) {
 		t.Errorf("%d charts for %d fitted nodes", n, fitted)
 	}
 	for _, want := range []string{"hypothesis", "confounding", "clinical judgement", "Markov blanket", "precision / recall",
-		"Quarter-standard-error rule: the strongest penalty within a quarter of a standard error", "±1 standard error", "chosen: ", "penalty, log scale", "◂ stronger", "categorical"} {
+		"Quarter-standard-error rule: the strongest penalty (dark point) within a quarter of a standard error of the best (open circle)", "±1 standard error", "chosen: ", "penalty, log scale", "◂ stronger", "categorical"} {
 		if !strings.Contains(s, want) {
 			t.Errorf("report lacks %q", want)
 		}
