@@ -122,6 +122,14 @@ func (r *run) pathSettings(p *nodePlan, scale []float64) lasso.Settings {
 	return s
 }
 
+// used returns the number of rows node p uses.
+func (p *nodePlan) used() int {
+	if p.rows != nil {
+		return len(p.rows)
+	}
+	return len(p.y)
+}
+
 // newNode returns the node's entry as known before fitting.
 func (r *run) newNode(p *nodePlan) Node {
 	vr := r.vars[p.v]
@@ -133,10 +141,7 @@ func (r *run) newNode(p *nodePlan) Node {
 		MarkovBlanket: []string{}, Warnings: []string{},
 		Score: Score{Value: nan(), SE: nan()}, PenalisedScore: Score{Value: nan(), SE: nan()}, Intercept: nan(),
 	}
-	n.Rows = len(p.y)
-	if p.rows != nil {
-		n.Rows = len(p.rows)
-	}
+	n.Rows = p.used()
 	if vr.Kind == table.Categorical {
 		n.Family = ""
 	}

@@ -171,7 +171,7 @@ func (r *run) relaxed(ctx context.Context, p *nodePlan, out cvOut) (map[int]bool
 	}
 	pick := best // the first (smallest) set within the rule's standard errors
 	rule := r.cfg.CV.Rule
-	yardstick := rule.Yardstick(ses[best], cv.Deviance, p.family, float64(len(out.rows)))
+	yardstick := rule.Yardstick(ses[best], cv.Deviance, p.family, float64(p.used()))
 	for i := range means {
 		allowed := rule.StandardErrors() * yardstick
 		if rule.Paired() {

@@ -151,15 +151,17 @@ func TestAdaptiveWeightsInsideFolds(t *testing.T) {
 // (networks without a single edge, 1,000 rows, 30 variables in 5 tiers, 6
 // seeds each), the floor of "no more false edges than continuous ones at the
 // same signal", under the default (the quarter-SE rule, whose standard error
-// for a binary node's deviance is at least √(2/(n−1)), cv.Rule.Yardstick)
+// for a binary node's deviance is at least √(2/(n−1)), cv.Rule.Yardstick),
+// under the relaxed lasso's choice of a refitted set under the same rule,
 // and under the paired-difference rule (cv.PairedDifference). Without the
 // floor the default's rule read the best point's standard error, small for
 // a 0/1 node whose prevalence is near one half, and let chance candidates
 // into binary nodes (the half-SE default before it: 6 false parents on these
-// 144 binary nodes, none on the continuous ones).
+// 144 binary nodes, none on the continuous ones; the relaxed lasso under
+// the quarter-SE rule 54 against 18).
 func TestBinaryFalseParentsAtNoSignal(t *testing.T) {
 	if testing.Short() {
-		t.Skip("24 networks of 1,000 rows")
+		t.Skip("36 networks of 1,000 rows")
 	}
 	for _, tc := range []struct {
 		name string
@@ -167,6 +169,7 @@ func TestBinaryFalseParentsAtNoSignal(t *testing.T) {
 	}{
 		{"default", &antecedent.Config{}},
 		{"paired", &antecedent.Config{CV: cv.Settings{Rule: cv.PairedDifference}}},
+		{"relaxed lasso, quarter-SE", &antecedent.Config{Selection: antecedent.RelaxedLasso, CV: cv.Settings{Rule: cv.QuarterStandardError}}},
 	} {
 		bin, nb := nullFalseParents(t, 1, tc.cfg)
 		cont, nc := nullFalseParents(t, 0, tc.cfg)
