@@ -39,7 +39,7 @@ type Config struct {
 	// CV.Path the solver (mixing, penalty grid, tolerance; lasso's
 	// defaults), CV.Measure the held-out loss (default deviance) and
 	// CV.Rule the penalty choice. A zero CV.Rule (cv.DefaultRule) means the
-	// selection's own: the half-standard-error rule for the adaptive
+	// selection's own: the quarter-standard-error rule for the adaptive
 	// lasso's second stage (chosen on the validity harness, see the
 	// README), the one-standard-error rule for the textbook and relaxed
 	// lasso and for stability selection.
