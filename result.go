@@ -100,10 +100,12 @@ type Node struct {
 	Rule         cv.Rule `json:"rule"`
 	// Margin is how many standard errors the rule allowed (cv.Result.Margin).
 	Margin Number `json:"margin"`
-	// RuleSE is the standard error the margin multiplied (cv.Result.RuleSE):
-	// the best point's, except that the half- and quarter-SE rules hold a
-	// binary node's deviance to at least √(2/(n−1)) (cv.Rule.Yardstick); NaN
-	// under the paired rule, whose standard errors are per point.
+	// RuleSE is the standard error the margin multiplied on the curve
+	// (cv.Result.RuleSE): the best point's, except that the half- and
+	// quarter-SE rules hold a binary node's deviance to at least √(2/(n−1))
+	// (cv.Rule.Yardstick); NaN under the paired rule, whose standard errors
+	// are per point. The relaxed lasso's choice among refitted sets reads
+	// the refits' own, floored the same way, which is not recorded.
 	RuleSE  Number     `json:"rule_se"`
 	Measure cv.Measure `json:"measure"`
 	// Score is the cross-validated score of the model whose effects are

@@ -33,8 +33,9 @@ const (
 	// relaxation fully relaxed) takes each distinct set of predictors met
 	// along the first path down to its minimum-loss penalty, refits it
 	// without penalty on every training fold, and keeps the set whose
-	// refit has the best cross-validated loss, or under the one-SE rule the
-	// smallest set within one standard error of it.
+	// refit has the best cross-validated loss, or under a standard-error
+	// rule (one-SE by default) the smallest set within that share of its
+	// standard error (cv.Rule.Yardstick's, over the rows the node uses).
 	RelaxedLasso
 )
 

@@ -474,7 +474,9 @@ func TestPairedDifference(t *testing.T) {
 // data (Wolberg et al.; scikit-learn's copy: 0/1 benign from the first ten
 // features) and on the diabetes data (Efron et al. 2004: the 0/1 sex from
 // the other nine variables, a weak signal, where every row's deviance is
-// about the same and the floor must bind).
+// about the same). On both the floor binds: a binomial deviance rarely
+// spreads as widely as χ²₁ (for an empty model its SD is at most about 1.33
+// against √2), so cv.TestYardstick checks the case where it does not.
 func TestBinomialYardstick(t *testing.T) {
 	cancer, err := opendata.ReadCSV("breast_cancer.csv")
 	if err != nil {
@@ -489,13 +491,12 @@ func TestBinomialYardstick(t *testing.T) {
 	}
 	others := append(append([][]float64{}, dx[:1]...), dx[2:]...)
 	for _, tc := range []struct {
-		name  string
-		x     [][]float64
-		y     []float64
-		binds bool // the floor must bind
+		name string
+		x    [][]float64
+		y    []float64
 	}{
-		{"breast cancer", opendata.UnitNorm(cancer.Columns[:10]), cancer.Column("benign"), false},
-		{"diabetes, sex", others, sex, true},
+		{"breast cancer", opendata.UnitNorm(cancer.Columns[:10]), cancer.Column("benign")},
+		{"diabetes, sex", others, sex},
 	} {
 		folds, err := cv.Stratified(tc.y, 10, 7)
 		if err != nil {
@@ -520,7 +521,7 @@ func TestBinomialYardstick(t *testing.T) {
 			if math.Abs(r.RuleSE-want) > 1e-12*want {
 				t.Errorf("%s, %v: the rule read %g, want %g (best point's %g, floor %g)", tc.name, rc.rule, r.RuleSE, want, se, floor)
 			}
-			if rc.floored && tc.binds && !(floor > se) {
+			if rc.floored && !(floor > se) {
 				t.Errorf("%s: the best point's standard error %g is not below the floor %g", tc.name, se, floor)
 			}
 			bound := r.Curve[r.Best].Mean + rc.m*want

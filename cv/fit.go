@@ -461,7 +461,11 @@ func (fw *foldWalk) advance(ctx context.Context, f, end int) error {
 // stopAfter returns the number of penalties to keep when the stopping rule
 // (see pastMinimum) holds at a penalty index in [from, to), the first such;
 // 0 when it holds at none. The curve is summarised as finish will (mean
-// and standard error), so the rule reads the numbers the choice reads.
+// and standard error), so the rule reads the means the choice reads. Its
+// least rise is in the best point's own standard error, not the floored
+// one the half- and quarter-SE rules read for binary nodes
+// (Rule.Yardstick): the rule was checked in those terms (bench/pathcut),
+// and the choice reads only penalties up to the minimum.
 func stopAfter(folds []foldPath, from, to int, larger bool) int {
 	loss := make([][]float64, len(folds))
 	var rows [][]rowSums
@@ -606,7 +610,7 @@ func (r *Result) finish(grid []float64, nonZero []int) {
 	summarise(r.Curve, r.FoldValues, r.rows)
 	// The paired differences cost a second pass over the held-out
 	// predictions: they are formed for the rule that reads them only.
-	best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false, 0)
+	best, _ := chooseWithin(r.Curve, r.Measure.LargerIsBetter(), 0, false, math.NaN())
 	switch {
 	case !r.Rule.Paired():
 	case best >= 0 && r.pairRows != nil:

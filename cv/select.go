@@ -42,10 +42,10 @@ const (
 	// are told apart: it is large for a continuous response (squared errors
 	// vary widely from row to row) and small for a 0/1 response whose
 	// prevalence is near one half (every row's loss under a near-empty
-	// model is then about the same), so the same rule is strict for one
-	// kind of node and lax for the other. Under this rule binary nodes get
-	// no more false parents than continuous ones at the same signal on the
-	// validity harness, where the half-SE rule gives them more; it also
+	// model is then about the same); Rule.Yardstick's floor answers that for
+	// the half- and quarter-SE rules, this rule by reading the comparison's
+	// own noise. Under it binary nodes get no more false parents than
+	// continuous ones at the same signal on the validity harness; it also
 	// admits more candidates into continuous nodes, and at small samples
 	// fewer into binary ones (figures in bench/README.md, section
 	// Validity). Comparing models on the same held-out rows is common
@@ -157,7 +157,8 @@ func (r Rule) String() string {
 }
 
 // Reach says in words how far from the best mean rule r reaches: "one
-// standard error", "half a standard error", or "" for the minimum (and an
+// standard error", "half a standard error", "a quarter of a standard
+// error", that of the paired rule, or "" for the minimum (and an
 // unresolved DefaultRule). Texts for readers compose from it.
 func (r Rule) Reach() string {
 	switch r {
@@ -242,14 +243,14 @@ type Point struct {
 // larger is true. NaN means are never chosen. It returns −1, −1 when every
 // mean is NaN.
 func Choose(curve []Point, larger bool) (best, oneSE int) {
-	return chooseWithin(curve, larger, 1, false, 0)
+	return chooseWithin(curve, larger, 1, false, math.NaN())
 }
 
 // chooseWithin returns the index of the best point and that of the first
 // (largest) penalty whose mean is within m standard errors of the best:
-// of the best point's (Point.SE, or floor when larger), or with paired of
-// the difference from it (Point.PairSE).
-func chooseWithin(curve []Point, larger bool, m float64, paired bool, floor float64) (best, within int) {
+// of se (Rule.Yardstick's; the best point's Point.SE when se is NaN), or
+// with paired of the difference from it (Point.PairSE).
+func chooseWithin(curve []Point, larger bool, m float64, paired bool, se float64) (best, within int) {
 	best = -1
 	for k, p := range curve {
 		if math.IsNaN(p.Mean) {
@@ -274,9 +275,8 @@ func chooseWithin(curve []Point, larger bool, m float64, paired bool, floor floa
 		}
 		return best, best
 	}
-	se := curve[best].SE
-	if floor > se {
-		se = floor
+	if math.IsNaN(se) {
+		se = curve[best].SE
 	}
 	bound := curve[best].Mean + m*se
 	if larger {
@@ -376,7 +376,7 @@ func StudentMargin(m float64, df int) float64 {
 // pair sets PairSE of every point of curve from the fold values loss[f][k]
 // (see Point.PairSE); larger says that larger is better.
 func pair(curve []Point, loss [][]float64, larger bool) {
-	best, _ := chooseWithin(curve, larger, 0, false, 0)
+	best, _ := chooseWithin(curve, larger, 0, false, math.NaN())
 	if best < 0 || len(loss) < 2 {
 		for k := range curve {
 			curve[k].PairSE = math.NaN()

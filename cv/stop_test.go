@@ -125,3 +125,26 @@ func TestStopAgreesWithWholePath(t *testing.T) {
 		t.Error("no path stopped early: the test checks nothing")
 	}
 }
+
+// TestChooseWithinStandardError checks which standard error chooseWithin's
+// bound reads: the one given (Rule.Yardstick's, which is the floor when the
+// best point's standard error is missing), else the best point's own.
+func TestChooseWithinStandardError(t *testing.T) {
+	curve := []Point{{Mean: 5}, {Mean: 4.2}, {Mean: 3.9}, {Mean: 3.7, SE: math.NaN()}, {Mean: 3.8}}
+	for _, tc := range []struct {
+		name   string
+		bestSE float64
+		se     float64
+		want   int
+	}{
+		{"the given standard error, best point's missing", math.NaN(), 0.8, 2},
+		{"the given standard error over the best point's", 0.1, 2, 1},
+		{"none given: the best point's", 0.8, math.NaN(), 2},
+		{"none given and the best point's missing: the minimum", math.NaN(), math.NaN(), 3},
+	} {
+		curve[3].SE = tc.bestSE
+		if best, got := chooseWithin(curve, false, 0.5, false, tc.se); best != 3 || got != tc.want {
+			t.Errorf("%s: best %d, chosen %d; want 3, %d", tc.name, best, got, tc.want)
+		}
+	}
+}

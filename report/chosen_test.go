@@ -76,8 +76,14 @@ func TestRuleLevel(t *testing.T) {
 	if best != best3 || math.Abs((quarter-best)/(one-best)-0.5) > 1e-9 {
 		t.Errorf("level lines at %g (one-SE, 0.3) and %g (quarter-SE, read 0.6) from the best point at %g; want the second half as far", one, quarter, best)
 	}
-	if !strings.Contains(caption, "taken as at least 0.6") || !strings.Contains(caption, "n = 500") {
-		t.Errorf("caption does not say the standard error was raised to 0.6 over 500 rows: %q", caption)
+	if !strings.Contains(caption, "taken as at least 0.6,") {
+		t.Errorf("caption does not say the standard error was raised to 0.6: %q", caption)
+	}
+	// A standard error raised far above the band: the level line stays
+	// inside the plot.
+	n := &antecedent.Node{Curve: curve, Penalty: curve[1].Penalty, BestPenalty: curve[3].Penalty, Rule: cv.QuarterStandardError, RuleSE: 20, Measure: cv.Deviance}
+	if c := cvChart(n, "x"); c == nil || c.Rule == nil || c.Rule.Y < c.Top-1e-9 || c.Rule.Y > c.Top+c.PlotH+1e-9 {
+		t.Errorf("level line of a raised standard error outside the plot: %+v", c)
 	}
 }
 

@@ -581,6 +581,28 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	larger := n.Measure == cv.AreaUnderCurve
 	chosen := nearest(pen, float64(n.Penalty))
 	best := nearest(pen, float64(n.BestPenalty))
+	// The level the rule compared with: the best mean plus (or minus) the
+	// rule's multiple of the standard error it read (hi and lo are ±1 of
+	// the best point's own; a binary node's may have been raised). The
+	// paired rule compares each point's mean, less its allowance, with the
+	// best mean itself.
+	lvl := math.NaN()
+	if best >= 0 {
+		se := hi[best] - ys[best]
+		if raised(n, se) {
+			se = float64(n.RuleSE)
+		}
+		lvl = ys[best] + n.Rule.StandardErrors()*se
+		if larger {
+			lvl = ys[best] - n.Rule.StandardErrors()*se
+		}
+		if n.Rule.Paired() {
+			lvl = ys[best]
+		}
+		if finite(lvl) && chosen >= 0 && chosen != best {
+			ymin, ymax = math.Min(ymin, lvl), math.Max(ymax, lvl)
+		}
+	}
 	c := newChart("held-out " + measureName(n.Measure))
 	c.ID = id
 	if chosen >= 0 && best >= 0 {
@@ -588,12 +610,12 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		// distance from the best edge of the band.
 		const reach = 2.5
 		if larger {
-			key := math.Min(ys[chosen], finiteOr(lo[best], ys[best]))
+			key := math.Min(math.Min(ys[chosen], finiteOr(lo[best], ys[best])), finiteOr(lvl, ys[chosen]))
 			if floor := key - reach*(ymax-key); floor > ymin {
 				ymin, c.Clipped = floor, true
 			}
 		} else {
-			key := math.Max(ys[chosen], finiteOr(hi[best], ys[best]))
+			key := math.Max(math.Max(ys[chosen], finiteOr(hi[best], ys[best])), finiteOr(lvl, ys[chosen]))
 			if ceil := key + reach*(key-ymin); ceil < ymax {
 				ymax, c.Clipped = ceil, true
 			}
@@ -625,7 +647,7 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	} else if reach := n.Rule.Reach(); reach != "" {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty (dark point) within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
 		if best >= 0 && raised(n, hi[best]-ys[best]) {
-			c.Caption += fmt.Sprintf(" For a 0/1 variable that standard error is taken as at least %.3g, √(2/(n−1)) for n = %d rows held out in turn: the standard error of a continuous variable's mean deviance at unit variance, so that both kinds are held to one yardstick.", float64(n.RuleSE), n.Rows)
+			c.Caption += fmt.Sprintf(" For a 0/1 variable that standard error is taken as at least %.3g, √(2/(n−1)) for the n rows held out in turn: the standard error of a continuous variable's mean deviance at unit variance, so that both kinds are held to one yardstick.", float64(n.RuleSE))
 		}
 	} else if n.Rule == cv.MinimumLoss {
 		c.Caption += fmt.Sprintf(" Minimum-loss rule: the penalty with the best held-out %s.", measureName(n.Measure))
@@ -637,20 +659,7 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	key := c.place(x, y, "chosen: "+parentCount(len(n.Parents)), larger, true)
 	key.Class = "key"
 	if best >= 0 && best != chosen {
-		// The level the rule compared with: the best mean plus (or minus)
-		// the rule's multiple of its standard error (hi and lo are ±1 SE).
-		se := hi[best] - ys[best]
-		if raised(n, se) {
-			se = float64(n.RuleSE)
-		}
-		lvl := ys[best] + n.Rule.StandardErrors()*se
-		if larger {
-			lvl = ys[best] - n.Rule.StandardErrors()*se
-		}
 		if n.Rule.Paired() {
-			// The paired rule compares each point's mean, less its
-			// allowance, with the best mean itself.
-			lvl = ys[best]
 			reach := margin * pair[chosen]
 			if larger {
 				reach = -reach
