@@ -19,11 +19,7 @@ func TestCancelMidRun(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, err := m.Sample(20_000, 5)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d := dataset(t, s)
+	d := sampled(t, m, 20_000, 5)
 	before := runtime.NumGoroutine()
 	for _, delay := range []time.Duration{5 * time.Millisecond, 60 * time.Millisecond, 300 * time.Millisecond} {
 		ctx, cancel := context.WithCancel(context.Background())

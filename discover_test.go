@@ -20,6 +20,17 @@ import (
 	"github.com/antecedent-lab/antecedent/table"
 )
 
+// sampled draws rows rows from model m with seed and returns them as a
+// dataset.
+func sampled(t testing.TB, m *simulate.Model, rows int, seed uint64) *table.Dataset {
+	t.Helper()
+	s, err := m.Sample(rows, seed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return dataset(t, s)
+}
+
 func dataset(t testing.TB, s *simulate.Sample) *table.Dataset {
 	t.Helper()
 	d, err := table.NewDataset(s.Names, s.Columns)
@@ -94,15 +105,12 @@ func TestRandomGaussianRecovery(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		s, err := m.Sample(2000, seed+100)
+		d := sampled(t, m, 2000, seed+100)
+		res, err := antecedent.DiscoverContext(context.Background(), d, o, &antecedent.Config{Seed: seed})
 		if err != nil {
 			t.Fatal(err)
 		}
-		res, err := antecedent.DiscoverContext(context.Background(), dataset(t, s), o, &antecedent.Config{Seed: seed})
-		if err != nil {
-			t.Fatal(err)
-		}
-		plan, _ := o.Compile(s.Names)
+		plan, _ := o.Compile(d.Names())
 		for _, e := range res.Edges {
 			if plan.Tier[plan.Index(e.From)] >= plan.Tier[plan.Index(e.To)] {
 				t.Errorf("edge %s -> %s goes backwards in time", e.From, e.To)

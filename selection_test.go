@@ -11,7 +11,6 @@ import (
 	"github.com/antecedent-lab/antecedent"
 	"github.com/antecedent-lab/antecedent/cv"
 	"github.com/antecedent-lab/antecedent/simulate"
-	"github.com/antecedent-lab/antecedent/table"
 )
 
 // sentenceEnd matches the end of a sentence: a full stop followed by a
@@ -194,17 +193,9 @@ func nullFalseParents(t *testing.T, binaryShare float64, cfg *antecedent.Config)
 		for i := range m.Nodes {
 			m.Nodes[i].Parents, m.Nodes[i].Weights = nil, nil
 		}
-		s, err := m.Sample(1000, seed+1000)
-		if err != nil {
-			t.Fatal(err)
-		}
-		d, err := table.NewDataset(s.Names, s.Columns)
-		if err != nil {
-			t.Fatal(err)
-		}
 		c := *cfg
 		c.Seed = seed
-		res, err := antecedent.DiscoverContext(context.Background(), d, o, &c)
+		res, err := antecedent.DiscoverContext(context.Background(), sampled(t, m, 1000, seed+1000), o, &c)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -229,11 +220,7 @@ func TestPairedRuleMargins(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	s, err := m.Sample(400, 5)
-	if err != nil {
-		t.Fatal(err)
-	}
-	d := dataset(t, s)
+	d := sampled(t, m, 400, 5)
 	folds := cv.StudentMargin(cv.PairedMargin, 9)
 	for _, tc := range []struct {
 		name             string

@@ -105,14 +105,12 @@ func (r *Result) heldRows(k int) float64 {
 	if len(r.rows) == 0 {
 		return math.NaN()
 	}
-	var all rowSums
 	for _, f := range r.rows {
-		if f == nil || k >= len(f) {
+		if k >= len(f) {
 			return math.NaN()
 		}
-		all.add(f[k])
 	}
-	return all.w * all.w / all.w2
+	return pooled(r.rows, k).effective()
 }
 
 // FoldPath returns fold f's training path, fitted on the same grid as

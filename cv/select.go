@@ -354,11 +354,7 @@ func summarise(curve []Point, loss [][]float64, rows [][]rowSums) {
 		curve[j].Mean = m
 		curve[j].SE = math.Sqrt(ss/(k-1)) / math.Sqrt(k)
 		if perRow {
-			var all rowSums
-			for _, r := range rows {
-				all.add(r[j])
-			}
-			curve[j].SE = all.se()
+			curve[j].SE = pooled(rows, j).se()
 		}
 	}
 }
@@ -414,6 +410,18 @@ func (s *rowSums) addRow(w []float64, i int, l float64) {
 	s.w2 += wi * wi
 }
 
+// pooled returns the sums at penalty k of every fold's rows[f].
+func pooled(rows [][]rowSums, k int) rowSums {
+	var all rowSums
+	for _, r := range rows {
+		all.add(r[k])
+	}
+	return all
+}
+
+// effective returns the effective number of rows behind the sums, W²/Σw².
+func (s rowSums) effective() float64 { return s.w * s.w / s.w2 }
+
 func (s *rowSums) add(o rowSums) {
 	s.wl += o.wl
 	s.wl2 += o.wl2
@@ -433,7 +441,7 @@ func (s rowSums) se() float64 {
 	}
 	mean := s.wl / s.w
 	v := math.Max(s.wl2/s.w-mean*mean, 0)
-	neff := s.w * s.w / s.w2
+	neff := s.effective()
 	if neff <= 1 {
 		return math.NaN()
 	}

@@ -586,18 +586,19 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	// the best point's own; a binary node's may have been raised). The
 	// paired rule compares each point's mean, less its allowance, with the
 	// best mean itself.
-	lvl := math.NaN()
+	lvl, raised := math.NaN(), false
 	if best >= 0 {
 		se := hi[best] - ys[best]
-		if raised(n, se) {
-			se = float64(n.RuleSE)
+		if r := float64(n.RuleSE); finite(r) && finite(se) && r > se*(1+1e-9) {
+			se, raised = r, true // the floor of cv.Rule.Yardstick for binary nodes
 		}
-		lvl = ys[best] + n.Rule.StandardErrors()*se
-		if larger {
-			lvl = ys[best] - n.Rule.StandardErrors()*se
-		}
-		if n.Rule.Paired() {
+		switch {
+		case n.Rule.Paired():
 			lvl = ys[best]
+		case larger:
+			lvl = ys[best] - n.Rule.StandardErrors()*se
+		default:
+			lvl = ys[best] + n.Rule.StandardErrors()*se
 		}
 		if finite(lvl) && chosen >= 0 && chosen != best {
 			ymin, ymax = math.Min(ymin, lvl), math.Max(ymax, lvl)
@@ -646,7 +647,7 @@ func cvChart(n *antecedent.Node, id string) *chart {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty whose held-out %s is worse than the best's (open circle) by at most %.3g standard errors of the difference between them (dark point); the vertical stroke from it is that allowance, which reaches the best's level (the line).", capital(n.Rule.Title()), measureName(n.Measure), margin)
 	} else if reach := n.Rule.Reach(); reach != "" {
 		c.Caption += fmt.Sprintf(" %s: the strongest penalty (dark point) within %s of the best (open circle), shown by the level line.", capital(n.Rule.Title()), reach)
-		if best >= 0 && raised(n, hi[best]-ys[best]) {
+		if raised {
 			c.Caption += fmt.Sprintf(" For a 0/1 variable that standard error is taken as at least %.3g, √(2/(n−1)) for the n rows held out in turn: the standard error of a continuous variable's mean deviance at unit variance, so that both kinds are held to one yardstick.", float64(n.RuleSE))
 		}
 	} else if n.Rule == cv.MinimumLoss {
@@ -690,13 +691,6 @@ func cvChart(n *antecedent.Node, id string) *chart {
 	c.Dots = append(c.Dots, dot{X: x, Y: y, Class: "chosen"})
 	c.Labels = append(c.Labels, key)
 	return c
-}
-
-// raised reports whether node n's rule read a standard error above se, the
-// best point's (cv.Rule.Yardstick's floor for binary nodes).
-func raised(n *antecedent.Node, se float64) bool {
-	r := float64(n.RuleSE)
-	return finite(r) && finite(se) && r > se*(1+1e-9)
 }
 
 func finiteOr(v, alt float64) float64 {
