@@ -145,9 +145,7 @@ func (e *residualEngine) shiftBounded(lam float64, set []int, shift, before floa
 func (e *residualEngine) addColumn(dst []float64, j int, f float64) {
 	switch {
 	case e.isBin[j]:
-		for _, t := range e.ones[j] {
-			dst[t] += f
-		}
+		addAt(dst, e.ones[j], f)
 	case e.rows == nil:
 		for t, x := range e.cols[j][:e.n] {
 			dst[t] += f * x

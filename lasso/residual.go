@@ -229,15 +229,20 @@ func (e *residualEngine) columnMoments(c []float64, intercept bool, pos []int32)
 		w := omega[t]
 		s1 += w * dx
 		s2 += w * dx * dx
-		switch {
-		case !bin:
-		case x == 1:
-			pos[ones] = int32(t)
-			ones++
-		case x == 0:
-			zeros++
-			pos[n-zeros] = int32(t)
-		default:
+		if !bin {
+			return
+		}
+		// Whether a row holds 1 or 0 is as good as random: the position
+		// goes to both ends and only the counts move, without a branch
+		// on the value. While the column is 0/1 the two slots differ
+		// (ones + zeros = t < n), or coincide at the last row with the
+		// same value.
+		one, zero := b2i(x == 1), b2i(x == 0)
+		pos[ones] = int32(t)
+		pos[n-1-zeros] = int32(t)
+		ones += one
+		zeros += zero
+		if one|zero == 0 {
 			bin = false
 		}
 	}
@@ -261,6 +266,15 @@ func (e *residualEngine) columnMoments(c []float64, intercept bool, pos []int32)
 		ss = 0
 	}
 	return m, ss, bin, ones
+}
+
+// b2i returns 1 for true and 0 for false.
+func b2i(b bool) int {
+	var i int
+	if b {
+		i = 1
+	}
+	return i
 }
 
 func (e *residualEngine) row(t int) int {
@@ -362,18 +376,7 @@ func (e *residualEngine) workingBinomial() {
 // dotQ returns Σ x_j·q.
 func (e *residualEngine) dotQ(j int) float64 {
 	if e.isBin[j] {
-		q := e.q[:e.n]
-		var s0, s1 float64
-		ones := e.ones[j]
-		k := 0
-		for ; k+2 <= len(ones); k += 2 {
-			s0 += q[ones[k]]
-			s1 += q[ones[k+1]]
-		}
-		if k < len(ones) {
-			s0 += q[ones[k]]
-		}
-		return s0 + s1
+		return sumAt(e.q[:e.n], e.ones[j])
 	}
 	if e.rows == nil {
 		return dot(e.cols[j][:e.n], e.q)
@@ -408,9 +411,7 @@ func (e *residualEngine) shift(j int, d float64) {
 	q, h := e.q[:e.n], e.h[:e.n]
 	switch {
 	case e.isBin[j]:
-		for _, t := range e.ones[j] {
-			q[t] -= f * h[t]
-		}
+		subScaledAt(q, h, e.ones[j], f)
 	case e.rows == nil:
 		c := e.cols[j][:e.n]
 		for t, x := range c {
@@ -460,10 +461,7 @@ func (e *residualEngine) squareGrad(j int) (float64, float64) {
 	var raw, sq, dq float64
 	switch {
 	case e.isBin[j]:
-		for _, t := range e.ones[j] {
-			raw += h[t]
-			dq += q[t]
-		}
+		raw, dq = sumAt2(h, q, e.ones[j])
 		sq = raw
 	case e.rows == nil:
 		for t, x := range c[:e.n] {

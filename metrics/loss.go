@@ -13,6 +13,14 @@ func LogLoss(p, labels, weights []float64) (float64, error) {
 	}
 	return weightedMean(p, labels, weights, func(q, y float64) float64 {
 		q = math.Min(math.Max(q, probabilityFloor), 1-probabilityFloor)
+		// A 0/1 label needs one of the two logarithms; the other term
+		// is an exact zero (q is floored away from 0 and 1).
+		switch y {
+		case 1:
+			return -math.Log(q)
+		case 0:
+			return -math.Log1p(-q)
+		}
 		return -(y*math.Log(q) + (1-y)*math.Log1p(-q))
 	}), nil
 }
