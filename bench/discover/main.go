@@ -8,6 +8,12 @@
 //	go run ./bench/discover -cases S,M             # some cases
 //	go run ./bench/discover -cases L-continuous -python-nodes 20
 //	go run ./bench/discover -cases scale -skip-python
+//	go run ./bench/discover -cases M-binary -skip-python -before 926793d
+//
+// With -before REV the harness also builds itself from revision REV (in a
+// temporary git work tree) and fits each case's data with that build too,
+// printing a before-and-after table: both sides' times and peaks, and on
+// how many nodes the parent sets agree.
 //
 // Each side runs in its own process so that its peak resident memory can
 // be read. The data are drawn by package simulate with a fixed seed.
@@ -84,6 +90,7 @@ func main() {
 	skipPy := flag.Bool("skip-python", false, "time antecedent only")
 	python := flag.String("python", "/usr/bin/python3", "Python with scikit-learn")
 	cpuProfile := flag.String("cpuprofile", "", "write a CPU profile of antecedent's fitting in the last case run to this file")
+	beforeRev := flag.String("before", "", "also fit each case with this harness built from an earlier commit (a git revision), for a before-and-after table with both sides' times, peaks and parent sets")
 	endToEnd := flag.Bool("end-to-end", false, "also time the whole command on the data as a CSV file: antecedent discover against each pipeline reading the CSV with pandas")
 	flag.StringVar(&selection, "selection", "lasso", "antecedent's parent selection: lasso (the textbook procedure the scikit-learn pipelines implement), adaptive (the library's default) or relaxed")
 	flag.Parse()
@@ -115,20 +122,42 @@ func main() {
 			log.Fatalf("building the command: %v", err)
 		}
 	}
+	var base *baseline
+	if *beforeRev != "" {
+		if base, err = buildBaseline(filepath.Join(filepath.Dir(file), "..", ".."), *beforeRev, dir); err != nil {
+			log.Fatal(err)
+		}
+	}
 	fmt.Println("| case | n | p | edges | antecedent s (CPU s) | peak MiB (raw data MiB) | plain s | tuned s | vs plain | vs tuned | scikit-learn peak MiB (plain / tuned) | edge agreement |")
 	fmt.Println("|---|---|---|---|---|---|---|---|---|---|---|---|")
-	var e2e []string
+	var e2e, versus []string
 	for _, c := range allCases() {
 		if !selected(c.name, *only) {
 			continue
 		}
-		row, whole, err := runCase(c, dir, script, *python, *pyNodes, *skipPy, *cpuProfile, cli)
+		row, whole, vs, err := runCase(c, dir, script, *python, *pyNodes, *skipPy, *cpuProfile, cli, base)
 		if err != nil {
 			log.Fatalf("%s: %v", c.name, err)
 		}
 		fmt.Println(row)
 		if whole != "" {
 			e2e = append(e2e, whole)
+		}
+		if vs != "" {
+			versus = append(versus, vs)
+		}
+	}
+	if len(versus) > 0 {
+		fmt.Println()
+		note := "its only selection, the textbook lasso"
+		if base.selects {
+			note = "selection " + selection
+		}
+		fmt.Printf("Before (this harness built from %s, %s) and after (this build), each fitting the same data in its own process, one after the other.\n\n", base.rev, note)
+		fmt.Println("| case | before s (CPU s) | after s (CPU s) | speed-up | peak MiB before → after | edges before / after | nodes with identical parents |")
+		fmt.Println("|---|---|---|---|---|---|---|")
+		for _, r := range versus {
+			fmt.Println(r)
 		}
 	}
 	if len(e2e) > 0 {
@@ -261,27 +290,27 @@ func peakKiB() int64 {
 
 // runCase times case c and returns its row of the fitting table and, when
 // cli names the built command, its row of the end-to-end table.
-func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, profile, cli string) (string, string, error) {
+func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, profile, cli string, base *baseline) (string, string, string, error) {
 	if pyNodes < 0 {
 		pyNodes = c.pyNodes
 	}
 	skipPy = skipPy || pyNodes < 0
 	m, o, err := simulate.Random(simulate.RandomSettings{Variables: c.p, Tiers: 5, BinaryShare: c.binary}, uint64(c.n+c.p))
 	if err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	s, err := m.Sample(c.n, 7)
 	if err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	dataPath := filepath.Join(dir, c.name+".f64")
 	f, err := os.Create(dataPath)
 	if err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	for _, col := range s.Columns {
 		if err := binary.Write(f, binary.LittleEndian, col); err != nil {
-			return "", "", err
+			return "", "", "", err
 		}
 	}
 	f.Close()
@@ -293,36 +322,59 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	self, _ := os.Executable()
 	out, err := exec.Command(self, "-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", resPath, "-cpuprofile", profile, "-selection", selection).Output()
 	if err != nil {
-		return "", "", fmt.Errorf("antecedent child: %v", err)
+		return "", "", "", fmt.Errorf("antecedent child: %v", err)
 	}
 	var ours childReport
 	if err := json.Unmarshal(out, &ours); err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	rf, err := os.Open(resPath)
 	if err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	res, err := antecedent.ReadResult(rf)
 	rf.Close()
 	if err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	// The original data are freed by the child; s is only needed for fold ids.
 	raw := float64(c.n*c.p*8) / (1 << 20)
 	row := fmt.Sprintf("| %s | %d | %d | %d | %.2f (%.1f) | %.0f (%.0f) |", c.name, c.n, c.p, len(res.Edges), ours.Seconds, ours.CPU, float64(ours.PeakKiB)/1024, raw)
+	var versus string
+	if base != nil {
+		rep, theirs, err := base.run(dir, c, dataPath, orderPath)
+		if err != nil {
+			return "", "", "", err
+		}
+		mine := map[string][]string{}
+		for _, e := range res.Edges {
+			mine[e.To] = append(mine[e.To], e.From)
+		}
+		for _, ps := range mine {
+			slices.Sort(ps)
+		}
+		var names []string
+		before := 0
+		for _, nd := range res.Nodes {
+			names = append(names, nd.Name)
+		}
+		for _, ps := range theirs {
+			before += len(ps)
+		}
+		versus = beforeRow(c, rep, ours, before, len(res.Edges), sameParents(theirs, mine, names), len(names))
+	}
 	var whole *command
 	if cli != "" {
 		if whole, err = runCommand(cli, dir, c, s, orderPath, res); err != nil {
-			return "", "", err
+			return "", "", "", err
 		}
 	}
 	if skipPy {
-		return row + " – | – | – | – | – | – |", whole.row(c, ours.Seconds, nil), nil
+		return row + " – | – | – | – | – | – |", whole.row(c, ours.Seconds, nil), versus, nil
 	}
 	spec, nodes, run, err := writeSpec(dir, c, res, s, pyNodes)
 	if err != nil {
-		return "", "", err
+		return "", "", "", err
 	}
 	var times, ses [2]float64
 	var peaks [2]float64
@@ -331,7 +383,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	for k, pipeline := range []string{"plain", "tuned"} {
 		py, err := runPython(python, script, spec, pipeline, "")
 		if err != nil {
-			return "", "", err
+			return "", "", "", err
 		}
 		times[k], ses[k] = py.estimate(nodes)
 		peaks[k] = py.PeakKiB / 1024
@@ -340,7 +392,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 			t0 := time.Now()
 			pw, err := runPython(python, script, spec, pipeline, whole.csv)
 			if err != nil {
-				return "", "", err
+				return "", "", "", err
 			}
 			// The process's wall time with the fit of the sampled nodes
 			// replaced by the fit of all of them.
@@ -359,7 +411,7 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 		return fmt.Sprintf(" ± %.1f (est. from %d of %d nodes)", ses[k], run, len(nodes))
 	}
 	return row + fmt.Sprintf(" %.1f%s | %.1f%s | %.1f× | %.1f× | %.0f / %.0f | plain: %s; tuned: %s |",
-		times[0], est(0), times[1], est(1), times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), whole.row(c, ours.Seconds, pyWhole), nil
+		times[0], est(0), times[1], est(1), times[0]/ours.Seconds, times[1]/ours.Seconds, peaks[0], peaks[1], agree[0], agree[1]), whole.row(c, ours.Seconds, pyWhole), versus, nil
 }
 
 type specNode struct {
