@@ -56,3 +56,36 @@ func TestIndexed(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkIndexed times the passes over a 0/1 predictor's listed rows at
+// the size of a 20,000-row case's fold: 18,000 rows, 35% of them listed.
+func BenchmarkIndexed(b *testing.B) {
+	r := rand.New(rand.NewPCG(1, 2))
+	const n = 18_000
+	u, v := make([]float64, n), make([]float64, n)
+	var at []int32
+	for i := range u {
+		u[i], v[i] = r.NormFloat64(), r.Float64()
+		if r.Float64() < 0.35 {
+			at = append(at, int32(i))
+		}
+	}
+	var sink float64
+	b.Run("sumAt", func(b *testing.B) {
+		for b.Loop() {
+			sink += sumAt(u, at)
+		}
+	})
+	b.Run("sumAt2", func(b *testing.B) {
+		for b.Loop() {
+			x, y := sumAt2(u, v, at)
+			sink += x + y
+		}
+	})
+	b.Run("subScaledAt", func(b *testing.B) {
+		for b.Loop() {
+			subScaledAt(u, v, at, 1e-9)
+		}
+	})
+	_ = sink
+}
