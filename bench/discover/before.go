@@ -47,24 +47,32 @@ func buildBaseline(repo, rev, dir string) (*baseline, error) {
 	return b, nil
 }
 
-// run fits the case's data files with the baseline's child and returns its
-// report and parent sets by node.
-func (b *baseline) run(dir string, c benchCase, dataPath, orderPath string) (childReport, map[string][]string, error) {
+// compare fits the case's data files with the baseline's child and
+// returns the before-and-after row against this build's report ours and
+// result file resPath, over the named nodes.
+func (b *baseline) compare(dir string, c benchCase, dataPath, orderPath, resPath string, ours childReport, nodes []string) (string, error) {
 	out := filepath.Join(dir, c.name+".before.json")
 	args := []string{"-child", "-data", dataPath, "-n", fmt.Sprint(c.n), "-p", fmt.Sprint(c.p), "-order", orderPath, "-out", out}
 	if b.selects {
 		args = append(args, "-selection", selection)
 	}
-	var rep childReport
 	stdout, err := exec.Command(b.bin, args...).Output()
 	if err != nil {
-		return rep, nil, fmt.Errorf("child of %s: %v", b.rev, err)
+		return "", fmt.Errorf("child of %s: %v", b.rev, err)
 	}
-	if err := json.Unmarshal(stdout, &rep); err != nil {
-		return rep, nil, err
+	var theirs childReport
+	if err := json.Unmarshal(stdout, &theirs); err != nil {
+		return "", err
 	}
-	parents, err := readParents(out)
-	return rep, parents, err
+	before, err := readParents(out)
+	if err != nil {
+		return "", err
+	}
+	after, err := readParents(resPath)
+	if err != nil {
+		return "", err
+	}
+	return beforeRow(c, theirs, ours, edges(before), edges(after), sameParents(before, after, nodes), len(nodes)), nil
 }
 
 // readParents reads a result file's edges as parent sets by child; only
@@ -91,6 +99,15 @@ func readParents(path string) (map[string][]string, error) {
 		slices.Sort(ps)
 	}
 	return parents, nil
+}
+
+// edges counts the edges of parent sets by child.
+func edges(parents map[string][]string) int {
+	n := 0
+	for _, ps := range parents {
+		n += len(ps)
+	}
+	return n
 }
 
 // sameParents counts the nodes whose parent sets agree, over the given

@@ -342,26 +342,13 @@ func runCase(c benchCase, dir, script, python string, pyNodes int, skipPy bool, 
 	row := fmt.Sprintf("| %s | %d | %d | %d | %.2f (%.1f) | %.0f (%.0f) |", c.name, c.n, c.p, len(res.Edges), ours.Seconds, ours.CPU, float64(ours.PeakKiB)/1024, raw)
 	var versus string
 	if base != nil {
-		rep, theirs, err := base.run(dir, c, dataPath, orderPath)
-		if err != nil {
+		names := make([]string, len(res.Nodes))
+		for i, nd := range res.Nodes {
+			names[i] = nd.Name
+		}
+		if versus, err = base.compare(dir, c, dataPath, orderPath, resPath, ours, names); err != nil {
 			return "", "", "", err
 		}
-		mine := map[string][]string{}
-		for _, e := range res.Edges {
-			mine[e.To] = append(mine[e.To], e.From)
-		}
-		for _, ps := range mine {
-			slices.Sort(ps)
-		}
-		var names []string
-		before := 0
-		for _, nd := range res.Nodes {
-			names = append(names, nd.Name)
-		}
-		for _, ps := range theirs {
-			before += len(ps)
-		}
-		versus = beforeRow(c, rep, ours, before, len(res.Edges), sameParents(theirs, mine, names), len(names))
 	}
 	var whole *command
 	if cli != "" {
