@@ -84,6 +84,11 @@ type run struct {
 	// pairs on Gaussian nodes (nil under the other rules).
 	heldRows *cv.HeldRows
 
+	// lists is the shared index of the 0/1 design columns over baseRows
+	// that large tables' binary and custom-family fits read (nil: each
+	// fit lists its own; see listsFor).
+	lists *lasso.Index
+
 	// Standard deviations of design columns over baseRows, formed once.
 	sdOnce []sync.Once
 	sdBase []float64
@@ -115,6 +120,15 @@ func (r *run) prepare(ctx context.Context) error {
 	if n < r.cfg.Folds {
 		return fmt.Errorf("%w: %d rows for %d folds", table.ErrData, n, r.cfg.Folds)
 	}
+	// Fits over a shared index pass over all its rows, so every design
+	// column must be finite on them: not under available-case handling
+	// of missing values.
+	if n*len(r.cols) >= shareCells && n < math.MaxInt32 && !(missing && r.cfg.Missing == table.MissingAvailableCase) {
+		var err error
+		if r.lists, err = lasso.NewIndex(r.cols, r.baseRows); err != nil {
+			return err
+		}
+	}
 	// Shared moments serve every Gaussian node when all nodes use the
 	// same rows.
 	needMoments := false
@@ -127,6 +141,23 @@ func (r *run) prepare(ctx context.Context) error {
 		return nil
 	}
 	return r.sharedMoments(ctx, n)
+}
+
+// shareCells is the size of table (rows × design columns) from which the
+// fits of a run share one listing of each 0/1 column (a lasso.Index)
+// instead of each of a node's eleven fits, two nodes at a time, listing
+// its own: at 10⁸ cells those lists alone can reach gigabytes. Sharing
+// costs time, as each fold fit then runs over its held-out rows too, at
+// weight zero (bench/README.md, "Memory of the million-row case").
+var shareCells = 50_000_000 // a variable for tests
+
+// listsFor returns the shared index for a fit on rows (nil: the base
+// rows), or nil when there is none or rows do not increase.
+func (r *run) listsFor(rows []int) *lasso.Index {
+	if r.lists == nil || !slices.IsSorted(rows) {
+		return nil
+	}
+	return r.lists
 }
 
 // checkResponses refuses a categorical response and families given for

@@ -341,7 +341,7 @@ func (r *run) stable(ctx context.Context, p *nodePlan, lam float64) (stability.S
 	s := r.pathSettings(p, p.penaltyScale(p.owner))
 	s.Penalties = []float64{lam}
 	sel, err := stability.Select(ctx, stability.Problem{
-		Data:  lasso.Data{Columns: r.cols, Response: p.y, Rows: p.rows, Predictors: p.cols},
+		Data:  lasso.Data{Columns: r.cols, Response: p.y, Rows: p.rows, Predictors: p.cols, Index: r.listsFor(p.rows)},
 		Group: p.owner, Counted: counted, Settings: s,
 		Pairs: r.cfg.Stability.Pairs, Seed: r.cfg.Seed, Stream: uint64(p.v),
 	})

@@ -70,7 +70,7 @@ func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows 
 	if err != nil {
 		return out, err
 	}
-	res, err := cv.Fit(ctx, lasso.Data{Columns: r.cols, Response: p.y, Rows: rows, Predictors: cols}, folds, &s)
+	res, err := cv.Fit(ctx, lasso.Data{Columns: r.cols, Response: p.y, Rows: rows, Predictors: cols, Index: r.listsFor(rows)}, folds, &s)
 	if err != nil {
 		return out, err
 	}

@@ -88,3 +88,53 @@ func BenchmarkBinomialIndicatorsN20kP40(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkBinomialFold fits a 0/1 response on 0/1 predictors over nine
+// tenths of the rows, the predictors listed by the fit itself ("own") or
+// read from an index over every row ("shared"), whose fit also runs over
+// the tenth it leaves out, at weight zero.
+func BenchmarkBinomialFold(b *testing.B) {
+	const n, p = 20_000, 60
+	rng := rand.New(rand.NewPCG(1, 2))
+	x := make([][]float64, p)
+	for j := range x {
+		x[j] = make([]float64, n)
+		rate := 0.1 + 0.8*rng.Float64()
+		for i := range x[j] {
+			if rng.Float64() < rate {
+				x[j][i] = 1
+			}
+		}
+	}
+	y := make([]float64, n)
+	for i := range y {
+		if rng.Float64() < 0.3+0.1*(x[0][i]+x[1][i]+x[2][i]) {
+			y[i] = 1
+		}
+	}
+	var rows []int
+	for i := range n {
+		if i%10 != 3 {
+			rows = append(rows, i)
+		}
+	}
+	index, err := lasso.NewIndex(x, nil)
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, c := range []struct {
+		name  string
+		index *lasso.Index
+	}{{"own", nil}, {"shared", index}} {
+		b.Run(c.name, func(b *testing.B) {
+			d := lasso.Data{Columns: x, Response: y, Rows: rows, Index: c.index}
+			s := &lasso.Settings{Family: lasso.Binomial{}, NumPenalties: 50}
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, err := lasso.Fit(context.Background(), d, s); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

@@ -22,6 +22,14 @@ type Data struct {
 	// Predictors lists the columns to use as predictors; nil means
 	// every column.
 	Predictors []int
+	// Index, when set, is an index of Columns over rows that include
+	// every row of the fit, in the same order (Rows must increase). The
+	// fit then reads its 0/1 predictors' lists from it instead of
+	// listing them itself (see Index); it then runs over all the index's
+	// rows, those outside Rows at weight zero, and its predictors must be
+	// finite on all of them. Gaussian fits that use the Gram engine do not
+	// read it.
+	Index *Index
 }
 
 // Fit fits a penalised path of the response on the predictors by pathwise
@@ -102,8 +110,13 @@ func prepare(d Data, s *Settings) (engine, []float64, resolved, []int, int, erro
 	if err := checkResponse(r.fam, d.Response, rows); err != nil {
 		return nil, nil, resolved{}, nil, 0, err
 	}
+	checked := rows
+	if d.Index != nil {
+		// The fit also passes over the index's other rows, at weight zero.
+		checked = d.Index.rows
+	}
 	for _, j := range pred {
-		if err := checkFinite(d.Columns[j], rows, j); err != nil {
+		if err := checkFinite(d.Columns[j], checked, j); err != nil {
 			return nil, nil, resolved{}, nil, 0, err
 		}
 	}

@@ -79,6 +79,20 @@ type residualEngine struct {
 }
 
 func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
+	// With a shared index the fit runs over the index's rows, those it
+	// leaves out (in[t] false) at weight zero, so that the index's lists
+	// serve it as they are.
+	var in []bool
+	if x := d.Index; x != nil {
+		if err := x.check(d.Columns, pred); err != nil {
+			return nil, err
+		}
+		var err error
+		if in, err = x.members(rows, len(d.Response)); err != nil {
+			return nil, err
+		}
+		rows = x.rows
+	}
 	n := len(d.Response)
 	if rows != nil {
 		n = len(rows)
@@ -87,7 +101,6 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	e := &residualEngine{
 		r: r, rows: rows, n: n, v: v,
 		cols:    make([][]float64, p),
-		y:       make([]float64, n),
 		omega:   make([]float64, n),
 		center:  make([]float64, p),
 		scale:   make([]float64, p),
@@ -112,18 +125,42 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
 	}
+	// A fit over every row reads the response in place when the family
+	// accepts it on every row (those of weight zero too); otherwise it
+	// holds its own copy.
+	shared := rows == nil && d.Index != nil && checkResponse(r.fam, d.Response, nil) == nil
+	if shared {
+		e.y = d.Response[:n:n]
+	} else {
+		e.y = make([]float64, n)
+	}
+	first := -1 // the first row the fit uses
 	for t := 0; t < n; t++ {
 		i := t
 		if rows != nil {
 			i = rows[t]
 		}
-		e.y[t] = d.Response[i]
+		if in != nil && !in[t] {
+			continue // weight zero; its response is set below
+		}
+		if first < 0 {
+			first = i
+		}
+		if !shared {
+			e.y[t] = d.Response[i]
+		}
 		w := 1.0
 		if d.Weights != nil {
 			w = d.Weights[i]
 		}
 		e.omega[t] = w
 		e.total += w
+	}
+	for t, x := range in {
+		if !x && !shared {
+			// Any value the family accepts: the row weighs nothing.
+			e.y[t] = d.Response[first]
+		}
 	}
 	var ybar float64
 	for t := range e.omega {
@@ -134,7 +171,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	// predictor's positions of ones from the front and of zeros from the
 	// back; the rarer are then copied out at their exact size.
 	var scratch []int32
-	if n < math.MaxInt32 {
+	if n < math.MaxInt32 && d.Index == nil {
 		scratch = make([]int32, n)
 	}
 	for j, c := range e.cols {
@@ -145,6 +182,11 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			e.scale[j] = 1
 			e.ones[j] = nil
 			continue
+		}
+		if d.Index != nil {
+			if e.listed(j, d.Index.column(pred[j])) {
+				continue
+			}
 		}
 		m, ss, bin, count := e.columnMoments(c, r.intercept, scratch)
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
@@ -266,6 +308,41 @@ func (e *residualEngine) columnMoments(c []float64, intercept bool, pos []int32)
 		ss = 0
 	}
 	return m, ss, bin, ones
+}
+
+// listed sets up 0/1 predictor j from its shared listing c (see Index),
+// with its moments over the fit's rows from the listed rows' weights. It
+// reports false, leaving j to be set up as any column, when the column is
+// not 0/1 on the index's rows, or when the list holds its zeros and the
+// fit has no intercept to absorb the flip.
+func (e *residualEngine) listed(j int, c *indexColumn) bool {
+	if !c.bin || (c.flip && !e.r.intercept) {
+		return false
+	}
+	// pz is the weight of the listed rows, the mean of the listed value.
+	pz := sumAt(e.omega[:e.n], c.list)
+	m, ss := pz, pz // without an intercept, Σω x² about 0
+	if c.flip {
+		m = 1 - pz
+	}
+	if e.r.intercept {
+		ss = pz * (1 - pz)
+	}
+	if !(ss > 0) || (e.r.intercept && isConstant(ss, m)) {
+		e.excl[j] = true
+		e.scale[j] = 1
+		return true
+	}
+	if e.r.intercept {
+		e.center[j] = pz // the mean of x, or of 1 − x when flipped
+	}
+	e.scale[j] = 1
+	if e.r.standard {
+		e.scale[j] = math.Sqrt(ss)
+	}
+	e.spreads[j] = math.Sqrt(ss) / e.scale[j]
+	e.isBin[j], e.flip[j], e.ones[j] = true, c.flip, c.list
+	return true
 }
 
 // b2i returns 1 for true and 0 for false.
@@ -645,7 +722,11 @@ func (e *residualEngine) updateEta() float64 {
 	alpha := e.alpha
 	var step float64
 	for t := range etas {
-		eta := etaOld[t] + (qw[t]-q[t])/h[t] - alpha
+		d := (qw[t] - q[t]) / h[t]
+		if h[t] == 0 {
+			d = 0 // a row of weight zero (see Index): 0/0
+		}
+		eta := etaOld[t] + d - alpha
 		etas[t] = eta
 		if d := math.Abs(eta - etaOld[t]); d > step || d != d {
 			step = d
