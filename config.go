@@ -47,7 +47,7 @@ type Config struct {
 	// binary nodes; the others use deviance, and each node records the
 	// measure it used. Each node's family and penalty factors are set per node, so
 	// CV.Path.Family and CV.Path.PenaltyScale must be left unset; CV.Workers
-	// is not used (nodes are fitted in parallel, see Workers).
+	// is not used (see Workers).
 	CV cv.Settings `json:"cv"`
 	// Selection is how parents are chosen from each node's path; zero
 	// means AdaptiveLasso. PenalisedLasso is the textbook procedure.
@@ -59,7 +59,10 @@ type Config struct {
 	Families map[string]lasso.Family `json:"-"`
 	// Seed makes folds and subsamples reproducible.
 	Seed uint64 `json:"seed"`
-	// Workers bounds the nodes fitted at once; zero means GOMAXPROCS.
+	// Workers bounds the goroutines that fit nodes; zero means
+	// GOMAXPROCS. They fit that many nodes at once, or, on tables of
+	// 5·10⁷ cells or more, the folds of one node at a time, so that one
+	// node's fits are held in memory rather than one per worker.
 	Workers int `json:"workers"`
 	// Missing is the missing-value policy.
 	Missing table.MissingPolicy `json:"missing"`

@@ -85,9 +85,12 @@ type run struct {
 	heldRows *cv.HeldRows
 
 	// lists is the shared index of the 0/1 design columns over baseRows
-	// that large tables' binary and custom-family fits read (nil: each
-	// fit lists its own; see listsFor).
+	// that large tables' fits in rows (all but the Gaussian nodes solved
+	// from moments) read (nil: each fit lists its own; see listsFor).
 	lists *lasso.Index
+	// foldWorkers is the number of a node's folds fitted at once; above
+	// one, one node is fitted at a time (see prepare).
+	foldWorkers int
 
 	// Standard deviations of design columns over baseRows, formed once.
 	sdOnce []sync.Once
@@ -128,6 +131,10 @@ func (r *run) prepare(ctx context.Context) error {
 		if r.lists, err = lasso.NewIndex(r.cols, r.baseRows); err != nil {
 			return err
 		}
+		// Each fit holds about eight arrays over the rows: fitting one
+		// node's folds in parallel rather than several nodes at once
+		// keeps one node's fits in memory, not one per worker.
+		r.foldWorkers = pool.Workers(r.cfg.Workers)
 	}
 	// Shared moments serve every Gaussian node when all nodes use the
 	// same rows.
@@ -147,15 +154,21 @@ func (r *run) prepare(ctx context.Context) error {
 // fits of a run share one listing of each 0/1 column (a lasso.Index)
 // instead of each of a node's eleven fits, two nodes at a time, listing
 // its own: at 10⁸ cells those lists alone can reach gigabytes. Sharing
-// costs time, as each fold fit then runs over its held-out rows too, at
-// weight zero (bench/README.md, "Memory of the million-row case").
+// costs time, as each fit then runs over the rows it leaves out too, at
+// weight zero: a tenth more rows for a fold fit, twice its rows for a
+// stability half (bench/README.md, "Memory of the million-row case").
 var shareCells = 50_000_000 // a variable for tests
 
 // listsFor returns the shared index for a fit on rows (nil: the base
 // rows), or nil when there is none or rows do not increase.
 func (r *run) listsFor(rows []int) *lasso.Index {
-	if r.lists == nil || !slices.IsSorted(rows) {
+	if r.lists == nil {
 		return nil
+	}
+	for t := 1; t < len(rows); t++ {
+		if rows[t] <= rows[t-1] {
+			return nil
+		}
 	}
 	return r.lists
 }
@@ -296,7 +309,11 @@ func (r *run) fitAll(ctx context.Context) ([]nodeFit, int, error) {
 		r.cfg.Progress(Progress{Done: done, Total: len(todo), Stage: "nodes"})
 	}
 	workers := pool.Workers(r.cfg.Workers)
-	err := r.engineOf().Fit(ctx, &FitWork{Tasks: len(todo), Workers: workers, Fit: func(ctx context.Context, t int) error {
+	nodes := workers
+	if r.foldWorkers > 1 {
+		nodes = 1 // the workers fit each node's folds
+	}
+	err := r.engineOf().Fit(ctx, &FitWork{Tasks: len(todo), Workers: nodes, Fit: func(ctx context.Context, t int) error {
 		v := todo[t]
 		f, err := r.fitNode(ctx, r.planNode(v))
 		if err != nil {

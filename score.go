@@ -49,7 +49,7 @@ func (e *tooFewRows) Error() string {
 // stratified by the response for binomial nodes.
 func (r *run) crossValidate(ctx context.Context, p *nodePlan, cols, owner, rows []int, scale []float64, foldScales [][]float64) (cvOut, error) {
 	s := r.cfg.CV
-	s.Path, s.Workers, s.FoldScales = r.pathSettings(p, scale), 1, foldScales
+	s.Path, s.Workers, s.FoldScales = r.pathSettings(p, scale), max(r.foldWorkers, 1), foldScales
 	if p.role != binomial && (s.Measure == cv.AreaUnderCurve || s.Measure == cv.Misclassification) {
 		s.Measure = cv.Deviance // a measure for 0/1 responses applies to binary nodes only
 	}

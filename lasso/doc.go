@@ -81,6 +81,14 @@
 // columns and selects rows and predictors by index, so cross-validation and
 // graph discovery fit many folds and nodes from one dataset.
 //
+// A 0/1 predictor is held by the rows of its rarer value, and its updates
+// touch only those rows. Each fit lists them for itself, unless Data
+// carries an Index: then a fit in rows (not one from moments) on a subset
+// of the index's rows reads its one listing, and runs over all the
+// index's rows with weight zero on those it leaves out, which saves
+// memory on large tables at some cost in time. (A mostly-one column in a
+// fit without an intercept is then passed over in full.)
+//
 // A custom loss implements Family; package familytest checks an
 // implementation against finite differences of its deviance.
 package lasso

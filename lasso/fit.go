@@ -27,8 +27,8 @@ type Data struct {
 	// fit then reads its 0/1 predictors' lists from it instead of
 	// listing them itself (see Index); it then runs over all the index's
 	// rows, those outside Rows at weight zero, and its predictors must be
-	// finite on all of them. Gaussian fits that use the Gram engine do not
-	// read it.
+	// finite on all of them. Gaussian fits that use the Gram engine
+	// ignore it.
 	Index *Index
 }
 
@@ -110,9 +110,13 @@ func prepare(d Data, s *Settings) (engine, []float64, resolved, []int, int, erro
 	if err := checkResponse(r.fam, d.Response, rows); err != nil {
 		return nil, nil, resolved{}, nil, 0, err
 	}
+	useGram := r.gaussian && (r.mode == GramMode || (r.mode == AutoMode && len(pred) <= 500 && nr >= 2*len(pred)))
 	checked := rows
-	if d.Index != nil {
+	if d.Index != nil && !useGram {
 		// The fit also passes over the index's other rows, at weight zero.
+		if err := d.Index.check(d.Columns, pred); err != nil {
+			return nil, nil, resolved{}, nil, 0, err
+		}
 		checked = d.Index.rows
 	}
 	for _, j := range pred {
@@ -120,7 +124,6 @@ func prepare(d Data, s *Settings) (engine, []float64, resolved, []int, int, erro
 			return nil, nil, resolved{}, nil, 0, err
 		}
 	}
-	useGram := r.gaussian && (r.mode == GramMode || (r.mode == AutoMode && len(pred) <= 500 && nr >= 2*len(pred)))
 	if useGram {
 		cols := make([][]float64, 0, len(pred)+1)
 		for _, j := range pred {

@@ -40,7 +40,7 @@ type indexColumn struct {
 // NewIndex returns an index of the 0/1 columns of cols over rows (nil:
 // every row; otherwise increasing row numbers). It returns an error when
 // the columns differ in length, a row is out of range or rows do not
-// increase, or there are 2³¹ rows or more.
+// increase, or there are 2³¹−1 rows or more.
 func NewIndex(cols [][]float64, rows []int) (*Index, error) {
 	n := -1
 	for j, c := range cols {

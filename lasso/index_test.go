@@ -160,6 +160,11 @@ func TestIndexErrors(t *testing.T) {
 	shuffled := slices.Clone(first[:20])
 	shuffled[0], shuffled[1] = shuffled[1], shuffled[0]
 	copied, _ := lasso.NewIndex(other, nil)
+	cut := make([][]float64, len(cols))
+	for j := range cols {
+		cut[j] = cols[j][:40]
+	}
+	short, _ := lasso.NewIndex(cut, nil)
 	for _, c := range []struct {
 		name  string
 		index *lasso.Index
@@ -169,6 +174,7 @@ func TestIndexErrors(t *testing.T) {
 		{"fit row outside the index", some, outside},
 		{"fit of every row, index of some", some, nil},
 		{"rows not increasing", some, shuffled},
+		{"index of shorter columns", short, nil},
 	} {
 		_, err := lasso.Fit(context.Background(), lasso.Data{Columns: cols, Response: yBin, Rows: c.rows, Index: c.index}, s)
 		if !errors.Is(err, lasso.ErrIndex) {

@@ -83,10 +83,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	// leaves out (in[t] false) at weight zero, so that the index's lists
 	// serve it as they are.
 	var in []bool
-	if x := d.Index; x != nil {
-		if err := x.check(d.Columns, pred); err != nil {
-			return nil, err
-		}
+	if x := d.Index; x != nil { // its columns were checked by prepare
 		var err error
 		if in, err = x.members(rows, len(d.Response)); err != nil {
 			return nil, err
@@ -225,7 +222,9 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		e.eta[t] = e.b0
 	}
 	for t, w := range e.omega {
-		e.nullDev += w * e.unitDeviance(e.y[t], e.eta[t])
+		if w > 0 { // rows of weight zero (see Index) may be anything
+			e.nullDev += w * e.unitDeviance(e.y[t], e.eta[t])
+		}
 	}
 	e.nullDev *= e.total
 	e.kktTol = r.tol * math.Sqrt(e.nullDev/e.total)
@@ -249,7 +248,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	return e, nil
 }
 
-// columnMoments returns, in one pass over the fitted rows of column c, its
+// columnMoments returns, in one pass over the engine's rows of column c, its
 // weighted mean (0 without an intercept), its weighted sum of squares about
 // that, whether it holds only 0 and 1, and then its number of ones. When
 // pos is not nil (it has a place for every fitted row), it writes there
@@ -391,6 +390,12 @@ func (e *residualEngine) working() {
 		for t, y := range e.y {
 			eta := e.eta[t]
 			w := e.omega[t]
+			if w == 0 {
+				// A row of weight zero (see Index): nothing, whatever
+				// the family makes of it.
+				e.h[t], e.q[t], e.qw[t] = 0, 0, 0
+				continue
+			}
 			hw, rr := fam.Working(y, eta)
 			if wantDev {
 				dev += w * e.unitDeviance(y, eta)
@@ -747,7 +752,9 @@ func (e *residualEngine) objectiveAt(lam float64, set []int, eta, beta []float64
 	if !known {
 		dev = 0
 		for t, w := range e.omega {
-			dev += w * e.unitDeviance(e.y[t], eta[t])
+			if w > 0 {
+				dev += w * e.unitDeviance(e.y[t], eta[t])
+			}
 		}
 		dev *= e.total
 	}
@@ -833,7 +840,9 @@ func (e *residualEngine) deviance() float64 {
 		return e.dev
 	}
 	for t, w := range e.omega {
-		d += w * e.unitDeviance(e.y[t], e.eta[t])
+		if w > 0 {
+			d += w * e.unitDeviance(e.y[t], e.eta[t])
+		}
 	}
 	e.dev, e.devOK = d*e.total, true
 	return e.dev
@@ -867,8 +876,10 @@ func (e *residualEngine) drift() float64 {
 	qs := e.qSnap[:n]
 	var sum float64
 	for t, w := range om {
-		d := q[t] - qs[t]
-		sum += d * d / w
+		if w > 0 { // q stays zero on rows of weight zero (see Index)
+			d := q[t] - qs[t]
+			sum += d * d / w
+		}
 	}
 	copy(qs, q)
 	// The factor and the term below cover rounding in the sums: the
