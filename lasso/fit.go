@@ -479,7 +479,7 @@ func newWalk(ctx context.Context, e engine, v []float64, r resolved, rows int) (
 	// Fit the unpenalised predictors (and intercept) alone.
 	if _, ok := e.solve(math.Inf(1), w.set); !ok {
 		path.Status = IterationLimit
-		w.done = true
+		w.finish()
 		return w, nil
 	}
 	g := make([]float64, p)
@@ -518,6 +518,15 @@ func newWalk(ctx context.Context, e engine, v []float64, r resolved, rows int) (
 	return w, nil
 }
 
+// finish ends the walk and lets an engine that holds recycled arrays give
+// them back (see Index): nothing reads the engine after.
+func (w *walk) finish() {
+	w.done = true
+	if r, ok := w.e.(interface{ release() }); ok {
+		r.release()
+	}
+}
+
 // next fits the next penalty of the sequence and reports whether it did;
 // false means the path has ended (its Status says how).
 func (w *walk) next(ctx context.Context) (bool, error) {
@@ -527,7 +536,7 @@ func (w *walk) next(ctx context.Context) (bool, error) {
 	path, e, r, v, g := w.path, w.e, w.r, w.v, w.g
 	k := path.Len()
 	if k == len(w.pens) {
-		w.done = true
+		w.finish()
 		return false, nil
 	}
 	if err := ctx.Err(); err != nil {
@@ -550,7 +559,7 @@ func (w *walk) next(ctx context.Context) (bool, error) {
 		sweeps += sw
 		if !ok {
 			path.Status = IterationLimit
-			w.done = true
+			w.finish()
 			return false, nil
 		}
 		if w.drift == nil {
@@ -594,7 +603,7 @@ func (w *walk) next(ctx context.Context) (bool, error) {
 	path.Sweeps = append(path.Sweeps, sweeps)
 	if expl >= r.saturation {
 		path.Status = Saturated
-		w.done = true
+		w.finish()
 	}
 	w.prev = lam
 	return true, nil

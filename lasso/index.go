@@ -25,6 +25,41 @@ type Index struct {
 	rows []int // nil: every row
 	n    int   // number of rows listed over
 	col  []indexColumn
+
+	// free holds arrays over the index's rows that finished fits gave
+	// back, for the next fits: one node's fits reuse the last node's
+	// instead of leaving the collector gigabytes of garbage.
+	mu   sync.Mutex
+	free [][]float64
+}
+
+// buffer returns a zeroed array over the index's rows, recycled when one
+// is free.
+func (x *Index) buffer() []float64 {
+	x.mu.Lock()
+	k := len(x.free)
+	if k == 0 {
+		x.mu.Unlock()
+		return make([]float64, x.n)
+	}
+	b := x.free[k-1]
+	x.free[k-1] = nil
+	x.free = x.free[:k-1]
+	x.mu.Unlock()
+	clear(b)
+	return b
+}
+
+// recycle takes back arrays from buffer (nil entries are skipped); the
+// caller must not use them after.
+func (x *Index) recycle(bufs ...[]float64) {
+	x.mu.Lock()
+	defer x.mu.Unlock()
+	for _, b := range bufs {
+		if b != nil && len(b) == x.n {
+			x.free = append(x.free, b)
+		}
+	}
 }
 
 type indexColumn struct {

@@ -110,6 +110,11 @@ func TestIndexSameFit(t *testing.T) {
 				t.Fatal(err)
 			}
 			d.Index = x
+			// The first fit leaves its arrays to the index; the second
+			// runs on them.
+			if _, err := lasso.Fit(context.Background(), d, s); err != nil {
+				t.Fatal(err)
+			}
 			shared, err := lasso.Fit(context.Background(), d, s)
 			if err != nil {
 				t.Fatal(err)

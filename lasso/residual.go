@@ -76,6 +76,33 @@ type residualEngine struct {
 	// norm of predictor j's working column over its scale (see drift).
 	qSnap   []float64
 	spreads []float64
+	// pool, when set, gave the per-row arrays, which release gives back.
+	pool *Index
+	ownY bool // y is the engine's own array, not the caller's response
+}
+
+// rowArray returns a zeroed array over the engine's rows, from the pool
+// when there is one.
+func (e *residualEngine) rowArray() []float64 {
+	if e.pool != nil {
+		return e.pool.buffer()
+	}
+	return make([]float64, e.n)
+}
+
+// release gives the per-row arrays back to the pool, once the path has
+// ended; the engine is not used after.
+func (e *residualEngine) release() {
+	if e.pool == nil {
+		return
+	}
+	y := e.y
+	if !e.ownY {
+		y = nil // the caller's response
+	}
+	e.pool.recycle(y, e.omega, e.eta, e.h, e.q, e.qw, e.etaOld, e.ex, e.exOld, e.qSnap)
+	e.y, e.omega, e.eta, e.h, e.q, e.qw, e.etaOld, e.ex, e.exOld, e.qSnap = nil, nil, nil, nil, nil, nil, nil, nil, nil, nil
+	e.pool = nil
 }
 
 func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*residualEngine, error) {
@@ -96,16 +123,12 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	}
 	p := len(pred)
 	e := &residualEngine{
-		r: r, rows: rows, n: n, v: v,
+		r: r, rows: rows, n: n, v: v, pool: d.Index,
 		cols:    make([][]float64, p),
-		omega:   make([]float64, n),
 		center:  make([]float64, p),
 		scale:   make([]float64, p),
 		excl:    make([]bool, p),
 		beta:    make([]float64, p),
-		eta:     make([]float64, n),
-		h:       make([]float64, n),
-		q:       make([]float64, n),
 		xv:      make([]float64, p),
 		hxRaw:   make([]float64, p),
 		old:     make([]float64, p),
@@ -119,6 +142,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		stamp:   1,
 		spreads: make([]float64, p),
 	}
+	e.omega, e.eta, e.h, e.q = e.rowArray(), e.rowArray(), e.rowArray(), e.rowArray()
 	for j, c := range pred {
 		e.cols[j] = d.Columns[c]
 	}
@@ -129,7 +153,7 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	if shared {
 		e.y = d.Response[:n:n]
 	} else {
-		e.y = make([]float64, n)
+		e.y, e.ownY = e.rowArray(), true
 	}
 	first := -1 // the first row the fit uses
 	for t := 0; t < n; t++ {
@@ -229,13 +253,13 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 	e.nullDev *= e.total
 	e.kktTol = r.tol * math.Sqrt(e.nullDev/e.total)
 	if !r.gaussian {
-		e.qw = make([]float64, n)
-		e.etaOld = make([]float64, n)
+		e.qw = e.rowArray()
+		e.etaOld = e.rowArray()
 	}
 	if _, ok := r.fam.(Binomial); ok {
 		e.binomial = true
-		e.ex = make([]float64, n)
-		e.exOld = make([]float64, n)
+		e.ex = e.rowArray()
+		e.exOld = e.rowArray()
 	}
 	e.working()
 	if r.gaussian {
@@ -870,7 +894,8 @@ func (e *residualEngine) drift() float64 {
 	n := e.n
 	q, om := e.q[:n], e.omega[:n]
 	if e.qSnap == nil {
-		e.qSnap = append([]float64(nil), q...)
+		e.qSnap = e.rowArray()
+		copy(e.qSnap, q)
 		return 0
 	}
 	qs := e.qSnap[:n]

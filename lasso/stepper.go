@@ -62,5 +62,5 @@ func (s *Stepper) Stop() {
 	if !w.done && w.path.Len() < len(w.pens) {
 		w.path.Status = Stopped
 	}
-	w.done = true
+	w.finish()
 }
