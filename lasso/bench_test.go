@@ -65,15 +65,7 @@ func BenchmarkBinomialN100kP50(b *testing.B) {
 func BenchmarkBinomialIndicatorsN20kP40(b *testing.B) {
 	const n, p = 20_000, 40
 	rng := rand.New(rand.NewPCG(1, 2))
-	cols := make([][]float64, p)
-	for j := range cols {
-		cols[j] = make([]float64, n)
-		for i := range cols[j] {
-			if rng.Float64() < 0.85 {
-				cols[j][i] = 1
-			}
-		}
-	}
+	cols := zeroOnes(rng, n, p, func() float64 { return 0.85 })
 	y := make([]float64, n)
 	for i := range y {
 		if rng.Float64() < 0.2+0.3*cols[0][i] {
@@ -96,16 +88,7 @@ func BenchmarkBinomialIndicatorsN20kP40(b *testing.B) {
 func BenchmarkBinomialFold(b *testing.B) {
 	const n, p = 20_000, 60
 	rng := rand.New(rand.NewPCG(1, 2))
-	x := make([][]float64, p)
-	for j := range x {
-		x[j] = make([]float64, n)
-		rate := 0.1 + 0.8*rng.Float64()
-		for i := range x[j] {
-			if rng.Float64() < rate {
-				x[j][i] = 1
-			}
-		}
-	}
+	x := zeroOnes(rng, n, p, func() float64 { return 0.1 + 0.8*rng.Float64() })
 	y := make([]float64, n)
 	for i := range y {
 		if rng.Float64() < 0.3+0.1*(x[0][i]+x[1][i]+x[2][i]) {
@@ -137,4 +120,21 @@ func BenchmarkBinomialFold(b *testing.B) {
 			}
 		})
 	}
+}
+
+// zeroOnes returns p columns of n rows drawn from rng, each 1 at a rate
+// that rate gives (called once per column, before its rows are drawn)
+// and 0 otherwise.
+func zeroOnes(rng *rand.Rand, n, p int, rate func() float64) [][]float64 {
+	cols := make([][]float64, p)
+	for j := range cols {
+		r := rate()
+		cols[j] = make([]float64, n)
+		for i := range cols[j] {
+			if rng.Float64() < r {
+				cols[j][i] = 1
+			}
+		}
+	}
+	return cols
 }
