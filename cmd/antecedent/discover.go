@@ -66,7 +66,7 @@ func (s *settings) register(fs *flag.FlagSet) {
 	fs.Uint64Var(&s.seed, "seed", 1, "seed for folds and subsamples")
 	fs.IntVar(&s.pairs, "stability-pairs", 0, "complementary pairs for stability selection (0 = off)")
 	fs.Float64Var(&s.threshold, "stability-threshold", 0.75, "selection frequency an edge needs, in (0.5, 1]")
-	fs.IntVar(&s.workers, "workers", 0, "nodes fitted at once (0 = number of CPUs)")
+	fs.IntVar(&s.workers, "workers", 0, "goroutines fitting nodes (0 = number of CPUs); on tables of 5·10⁷ cells or more the folds of one node at a time")
 	fs.StringVar(&s.missing, "missing", "error", "missing values: error, complete-case or available-case")
 	fs.BoolVar(&s.sameTier, "same-tier", false, "also report same-tier associations as undirected links")
 	fs.BoolVar(&s.quiet, "quiet", false, "print nothing but errors")
