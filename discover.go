@@ -131,7 +131,7 @@ func (r *run) prepare(ctx context.Context) error {
 		if r.lists, err = lasso.NewIndex(r.cols, r.baseRows); err != nil {
 			return err
 		}
-		// Each fit holds about eight arrays over the rows: fitting one
+		// Each fit holds about nine arrays over the rows: fitting one
 		// node's folds in parallel rather than several nodes at once
 		// keeps one node's fits in memory, not one per worker.
 		r.foldWorkers = pool.Workers(r.cfg.Workers)
