@@ -105,18 +105,12 @@ func NewIndex(cols [][]float64, rows []int) (*Index, error) {
 	return &Index{cols: cols, rows: rows, n: m, col: make([]indexColumn, len(cols))}, nil
 }
 
-// Rows returns the number of rows the index lists over.
-func (x *Index) Rows() int { return x.n }
-
 // column returns the listing of column j, forming it on first use.
 func (x *Index) column(j int) *indexColumn {
 	c := &x.col[j]
 	c.once.Do(func() { c.bin, c.flip, c.list = listRarer(x.cols[j], x.rows, x.n) })
 	return c
 }
-
-// Binary reports whether column j holds only 0 and 1 on the index's rows.
-func (x *Index) Binary(j int) bool { return x.column(j).bin }
 
 // listRarer returns whether c holds only 0 and 1 on rows (n of them; nil:
 // every row) and, if so, the positions among them of its rarer value (of

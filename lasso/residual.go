@@ -204,12 +204,23 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 			e.ones[j] = nil
 			continue
 		}
+		// A 0/1 column the shared index lists (see Index) is set up from
+		// its list; any other from a pass over the column.
+		var ic *indexColumn
 		if d.Index != nil {
-			if e.listed(j, d.Index.column(pred[j])) {
-				continue
+			if ic = d.Index.column(pred[j]); !ic.bin || (ic.flip && !r.intercept) {
+				ic = nil // not 0/1, or its list holds zeros and no intercept absorbs the flip
 			}
 		}
-		m, ss, bin, count := e.columnMoments(c, r.intercept, scratch)
+		var m, ss float64
+		var bin bool
+		var count int
+		if ic != nil {
+			m, ss = e.listedMoments(ic)
+			bin = true
+		} else {
+			m, ss, bin, count = e.columnMoments(c, r.intercept, scratch)
+		}
 		if ss == 0 || (r.intercept && isConstant(ss, m)) {
 			e.excl[j] = true
 			e.scale[j] = 1
@@ -224,6 +235,11 @@ func newResidualEngine(d Data, pred, rows []int, v []float64, r resolved) (*resi
 		e.spreads[j] = math.Sqrt(ss) / e.scale[j]
 		e.isBin[j] = bin
 		switch {
+		case ic != nil:
+			e.flip[j], e.ones[j] = ic.flip, ic.list
+			if ic.flip {
+				e.center[j] = 1 - m
+			}
 		case bin && r.intercept && 2*count > n:
 			// Mostly ones: work with 1 − x, whose ones are fewer; the
 			// intercept absorbs the constant and toOriginal turns the
@@ -333,39 +349,20 @@ func (e *residualEngine) columnMoments(c []float64, intercept bool, pos []int32)
 	return m, ss, bin, ones
 }
 
-// listed sets up 0/1 predictor j from its shared listing c (see Index),
-// with its moments over the fit's rows from the listed rows' weights. It
-// reports false, leaving j to be set up as any column, when the column is
-// not 0/1 on the index's rows, or when the list holds its zeros and the
-// fit has no intercept to absorb the flip.
-func (e *residualEngine) listed(j int, c *indexColumn) bool {
-	if !c.bin || (c.flip && !e.r.intercept) {
-		return false
-	}
-	// pz is the weight of the listed rows, the mean of the listed value.
+// listedMoments returns what columnMoments returns of a 0/1 column, its
+// weighted mean (0 without an intercept) and sum of squares about that
+// over the fit's rows, from its shared listing c: the weight of the listed
+// rows is the mean of the listed value. Without an intercept c lists ones.
+func (e *residualEngine) listedMoments(c *indexColumn) (m, ss float64) {
 	pz := sumAt(e.omega[:e.n], c.list)
-	m, ss := pz, pz // without an intercept, Σω x² about 0
+	if !e.r.intercept {
+		return 0, pz
+	}
+	m = pz
 	if c.flip {
 		m = 1 - pz
 	}
-	if e.r.intercept {
-		ss = pz * (1 - pz)
-	}
-	if !(ss > 0) || (e.r.intercept && isConstant(ss, m)) {
-		e.excl[j] = true
-		e.scale[j] = 1
-		return true
-	}
-	if e.r.intercept {
-		e.center[j] = pz // the mean of x, or of 1 − x when flipped
-	}
-	e.scale[j] = 1
-	if e.r.standard {
-		e.scale[j] = math.Sqrt(ss)
-	}
-	e.spreads[j] = math.Sqrt(ss) / e.scale[j]
-	e.isBin[j], e.flip[j], e.ones[j] = true, c.flip, c.list
-	return true
+	return m, max(pz*(1-pz), 0)
 }
 
 // b2i returns 1 for true and 0 for false.
